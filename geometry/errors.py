@@ -28,3 +28,37 @@ class RadiusTooSmallError(GeometryError):
 
 class TurnDoesNotFitError(GeometryError):
     """The legs of a junction are too short for the turn arc's tangent length."""
+
+
+class NetworkError(GeometryError):
+    """The line network is malformed (duplicate line ids), or a leg, corner or movement is used
+    with a junction it does not belong to."""
+
+
+class InvalidSweepSettingError(GeometryError):
+    """A swept-path setting is out of range: chord tolerance too small, or an initial body angle
+    beyond 90 degrees."""
+
+
+class OutsideDesignGroupsError(GeometryError):
+    """A dimension is not positive, or is larger than the largest design group of the standard
+    (above ADG VI, code letter F, OMGWS 15 m or TDG 7)."""
+
+
+class UnknownRuleError(GeometryError):
+    """A rule set, design group, separation kind or code number that the standards do not know."""
+
+
+class RuleInputError(GeometryError):
+    """An input to a standards rule is out of range: a malformed rule value, a negative taxiing
+    speed, or a metre value asked of an angle."""
+
+
+class InvalidCornerError(GeometryError):
+    """The inside corner of a junction is malformed: legs in line, a turn radius not larger than
+    half the pavement width, or a turn-arc centre that is not tangent to both legs."""
+
+
+class FilletDoesNotFitError(GeometryError):
+    """No fillet of the usual form (taper, arc about the turn centre, taper) can contain the
+    required pavement at a corner."""

@@ -8,8 +8,9 @@ views use to refer to it.
 
 from __future__ import annotations
 
+from collections.abc import Iterator
 from dataclasses import dataclass, field, replace
-from typing import Literal
+from typing import Literal, TypeAlias
 
 from geometry.aircraft import DesignAircraft
 from geometry.units import LengthUnit
@@ -18,6 +19,20 @@ RuleSetName = Literal["FAA", "ICAO"]
 CenterlineKind = Literal["taxiway", "taxilane"]
 ObjectKind = Literal["building", "sign", "navaid", "other"]
 XY = tuple[float, float]
+
+# The allowed values of the Literal types above, for checks at the boundaries (edits, files).
+RULE_SET_NAMES: tuple[RuleSetName, ...] = ("FAA", "ICAO")
+CENTERLINE_KINDS: tuple[CenterlineKind, ...] = ("taxiway", "taxilane")
+OBJECT_KINDS: tuple[ObjectKind, ...] = ("building", "sign", "navaid", "other")
+# Design-group labels: FAA AC 150/5300-13B taxiway design groups and airplane design groups,
+# ICAO Annex 14 Vol I aerodrome reference code letters (see shared/REFERENCES.md).
+TDG_VALUES: tuple[str, ...] = ("1A", "1B", "2A", "2B", "3", "4", "5", "6", "7")
+ADG_VALUES: tuple[str, ...] = ("I", "II", "III", "IV", "V", "VI")
+CODE_LETTERS: tuple[str, ...] = ("A", "B", "C", "D", "E", "F")
+
+# No coordinate or length of a layout may exceed this (a plausibility bound, not a standard: a
+# layout is at most a few tens of kilometres across; beyond 1e9 m a typo or a corrupt file).
+MAX_COORDINATE_M = 1e9
 
 
 @dataclass(frozen=True, slots=True)
@@ -102,4 +117,38 @@ class Layout:
     objects: tuple[FixedObject, ...] = ()
     existing_pavements: tuple[ExistingPavement, ...] = ()
     excluded_movements: frozenset[str] = frozenset()
+    # (corner key, radius) pairs sorted by key, so equal settings compare equal.
     turn_radius_overrides_m: tuple[tuple[str, float], ...] = ()
+
+    def turn_radius_override_m(self, corner_key: str) -> float | None:
+        """The planner's turn radius for ``corner_key``, or None when the rule set decides."""
+        for key, radius_m in self.turn_radius_overrides_m:
+            if key == corner_key:
+                return radius_m
+        return None
+
+
+Element: TypeAlias = Centerline | Runway | FixedObject | ExistingPavement
+
+# The layout fields that hold elements, in drawing and file order.
+ELEMENT_FIELDS: tuple[str, ...] = ("centerlines", "runways", "objects", "existing_pavements")
+
+# The layout fields that change derived results for every element (not the element tuples).
+SETTINGS_FIELDS: tuple[str, ...] = ("fleet", "rule_set", "units", "excluded_movements",
+                                    "turn_radius_overrides_m")
+
+
+def element_tuples(layout: Layout) -> tuple[tuple[Element, ...], ...]:
+    """The layout's element tuples in :data:`ELEMENT_FIELDS` order."""
+    return (layout.centerlines, layout.runways, layout.objects, layout.existing_pavements)
+
+
+def iter_elements(layout: Layout) -> Iterator[Element]:
+    """Every element of the layout: centerlines, runways, objects, then existing pavements."""
+    for elements in element_tuples(layout):
+        yield from elements
+
+
+def settings_differ(before: Layout, after: Layout) -> bool:
+    """True when fleet, rule set, units, exclusions or turn-radius overrides differ."""
+    return any(getattr(before, name) != getattr(after, name) for name in SETTINGS_FIELDS)

@@ -1,0 +1,378 @@
+"""Swept paths of a taxiing aircraft whose cockpit follows a centerline.
+
+The main-gear centre M trails the cockpit C at the fixed distance d = CMG along the body axis and
+moves along that axis (no side slip): the pursuit curve (tractrix). With the body angle alpha
+(path tangent heading minus body heading) and the path curvature kappa,
+
+    d(alpha)/ds = kappa - sin(alpha) / d.
+
+On a straight or an arc kappa is constant and the equation has a closed form (docs/kinematics.md):
+the half-angle vector w = (cos(alpha/2), sin(alpha/2)) obeys the linear equation dw/ds = A w, so
+w(s) = (c(s) I + g(s) A) w(0) with c, g given by cosh/sinh (R > d), 1/s (R = d) or cos/sin
+(R < d). This has no singularity at any alpha, whatever the radius. The engine evaluates it
+exactly at each station; there is no stepping integrator. Each segment is cut into pieces short
+enough that the coefficients stay of order one (no overflow for long straights) and alpha moves
+by less than a radian per piece (so its angle is read without ambiguity).
+
+Signs: alpha > 0 and steering > 0 in a left turn; offsets are positive to the left of travel.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from geometry.aircraft import DesignAircraft
+from geometry.errors import (
+    GeometryError,
+    InvalidPathError,
+    InvalidSweepSettingError,
+    NonFiniteInputError,
+    RadiusTooSmallError,
+)
+from geometry.offsets import lateral_offset_m
+from geometry.path import CenterlinePath, standard_turn_path
+from geometry.primitives import Arc, FloatArray
+
+DEFAULT_CHORD_TOLERANCE_M = 0.003  # a track polyline stays within 3 mm of the exact curve
+MIN_CHORD_TOLERANCE_M = 1e-6  # finer tolerances only multiply stations without meaning
+MIN_RADIUS_FLOOR_M = 0.5  # min_radius_for_steering_limit never answers below this
+RADIUS_TOLERANCE_M = 1e-3  # bisection tolerance of min_radius_for_steering_limit
+SETTLING_LENGTH_CMG = 10.0  # lead-in/out of the standard turn, in CMG: e^-10 of any transient left
+_HALF_PI = math.pi / 2.0
+
+
+@dataclass(frozen=True, slots=True, eq=False)
+class SweptPath:
+    """Tracks of one aircraft along one centerline path, sampled at cockpit stations.
+
+    Every array has one row per station. ``*_xy`` arrays have shape (n, 2). Offsets are
+    signed lateral distances from the centerline path, positive to the left of travel,
+    measured with the path continued along its end tangents (see :mod:`geometry.offsets`).
+    """
+
+    path: CenterlinePath
+    aircraft: DesignAircraft
+    station_m: FloatArray            # cockpit distance along the path
+    cockpit_xy: FloatArray
+    body_heading_rad: FloatArray     # heading of the body axis
+    body_angle_rad: FloatArray       # path tangent heading minus body heading (alpha)
+    main_gear_xy: FloatArray         # main-gear centre (pursuit curve)
+    gear_left_edge_xy: FloatArray    # outer edge of the left outermost main-gear tyre
+    gear_right_edge_xy: FloatArray   # outer edge of the right outermost main-gear tyre
+    nose_gear_xy: FloatArray
+    nose_xy: FloatArray
+    tail_xy: FloatArray
+    wingtip_left_xy: FloatArray
+    wingtip_right_xy: FloatArray
+    steering_rad: FloatArray         # nose-gear steering angle, signed (+ left)
+    gear_offset_m: FloatArray        # main-gear centre offset from the centerline
+    left_edge_offset_m: FloatArray   # offset of gear_left_edge_xy from the centerline
+    right_edge_offset_m: FloatArray  # offset of gear_right_edge_xy from the centerline
+
+    @property
+    def max_steering_rad(self) -> float:
+        """Largest nose-gear steering angle over the movement, as a magnitude (>= 0)."""
+        return float(np.max(np.abs(self.steering_rad)))
+
+    @property
+    def max_steering_station_m(self) -> float:
+        """Cockpit station at which :attr:`max_steering_rad` occurs (the first, if several)."""
+        return float(self.station_m[int(np.argmax(np.abs(self.steering_rad)))])
+
+    @property
+    def max_edge_offset_m(self) -> float:
+        """Largest distance of an outer tyre edge from the centerline toward either side, over the
+        whole movement: max over stations of max(left edge offset, -right edge offset). In a turn
+        this is the inner tyre edge's deviation toward the inside; on a straight it is mgw/2."""
+        return float(max(np.max(self.left_edge_offset_m), np.max(-self.right_edge_offset_m)))
+
+    @property
+    def max_gear_deviation_m(self) -> float:
+        """Largest distance of the main-gear centre from the centerline (zero on a straight)."""
+        return float(np.max(np.abs(self.gear_offset_m)))
+
+
+@dataclass(frozen=True, slots=True, eq=False)
+class _Pieces:
+    """The closed form chained along the path: each piece has constant curvature."""
+
+    start_m: FloatArray
+    length_m: FloatArray
+    curvature_per_m: FloatArray
+    start_alpha_rad: FloatArray
+    end_alpha_rad: FloatArray
+    cmg_m: float
+    path_length_m: float
+
+    def all_alphas_rad(self) -> FloatArray:
+        return np.append(self.start_alpha_rad, self.end_alpha_rad[-1])
+
+
+def sweep(path: CenterlinePath, aircraft: DesignAircraft, *,
+          chord_tolerance_m: float = DEFAULT_CHORD_TOLERANCE_M,
+          initial_body_angle_rad: float = 0.0) -> SweptPath:
+    """Follow ``path`` with the cockpit over the centerline, starting with the body at
+    ``initial_body_angle_rad`` to the first segment's tangent (0: aligned).
+
+    Stations include every segment end. Between them the step is chosen per piece from a bound
+    on the second derivative of every tracked point (docs/kinematics.md, "Sampling"), so each
+    track polyline stays within ``chord_tolerance_m`` of the exact curve.
+
+    Raises
+    ------
+    RadiusTooSmallError
+        If the body angle reaches 90 degrees: the main gear would have to roll backwards.
+    InvalidSweepSettingError, NonFiniteInputError
+        For a chord tolerance or initial body angle out of range.
+
+    Examples
+    --------
+    >>> from geometry.path import standard_turn_path
+    >>> plane = DesignAircraft("Demo", cmg_m=20.0, wheelbase_m=18.0, mgw_m=9.0, tyre_width_m=1.0,
+    ...                        wingspan_m=36.0, wingtip_x_m=-3.0, nose_x_m=23.0, tail_x_m=-20.0,
+    ...                        tail_height_m=12.0)
+    >>> swept = sweep(standard_turn_path(60.0, 6.0, 200.0, 200.0), plane)
+    >>> round(swept.max_gear_deviation_m, 3)  # settled on the arc: 60 - sqrt(60^2 - 20^2)
+    3.431
+    """
+    _check_chord_tolerance(chord_tolerance_m)
+    pieces = _chain_pieces(path, aircraft, initial_body_angle_rad)
+    station_m = _sample_stations(pieces, _body_points(aircraft), chord_tolerance_m)
+    return _swept_path(path, aircraft, station_m, _alpha_at(pieces, station_m))
+
+
+def sweep_at_stations(path: CenterlinePath, aircraft: DesignAircraft, station_m: FloatArray, *,
+                      initial_body_angle_rad: float = 0.0) -> SweptPath:
+    """Like :func:`sweep`, evaluated exactly at the given cockpit stations (m, 0..path length)."""
+    stations = np.asarray(station_m, dtype=float)
+    if stations.ndim != 1 or stations.size == 0:
+        raise GeometryError("stations must be a non-empty one-dimensional array")
+    if not np.isfinite(stations).all():
+        raise NonFiniteInputError("a station is NaN or infinite")
+    if stations.min() < 0.0 or stations.max() > path.length_m:
+        raise GeometryError(f"stations must lie between 0 and the path length {path.length_m:.3f} m")
+    pieces = _chain_pieces(path, aircraft, initial_body_angle_rad)
+    return _swept_path(path, aircraft, stations, _alpha_at(pieces, stations))
+
+
+def steering_angle_rad(aircraft: DesignAircraft, body_angle_rad: FloatArray) -> FloatArray:
+    """Nose-gear steering angle for body angles alpha: atan2(WB sin(alpha), d cos(alpha))."""
+    alpha = np.asarray(body_angle_rad, dtype=float)
+    return np.asarray(np.arctan2(aircraft.wheelbase_m * np.sin(alpha), aircraft.cmg_m * np.cos(alpha)),
+                      dtype=float)
+
+
+def steering_limited_radius_steady_state(aircraft: DesignAircraft) -> float:
+    """Centerline radius (m) at which the steady-state steering equals the aircraft's limit:
+    sqrt((WB / tan(theta_max))^2 + d^2) (identity of the steady state, docs/kinematics.md)."""
+    return math.hypot(aircraft.wheelbase_m / math.tan(aircraft.max_steering_rad), aircraft.cmg_m)
+
+
+def min_radius_for_steering_limit(aircraft: DesignAircraft, turn_rad: float) -> float:
+    """Smallest centerline radius (m) for a standard turn of ``turn_rad`` (aligned lead-in,
+    arc, lead-out long enough to settle) at which the nose-gear steering angle stays within
+    ``aircraft.max_steering_deg``.
+
+    The peak steering of a standard turn occurs where the cockpit leaves the arc and falls as the
+    radius grows, so a bisection between :data:`MIN_RADIUS_FLOOR_M` and the steady-state limit
+    radius (never exceeded by the transient) finds it to :data:`RADIUS_TOLERANCE_M`; the upper
+    end of the final bracket is returned. A short turn that stays within the limit even at the
+    floor returns the floor. Any finite non-zero turn is accepted; the sign does not matter.
+    """
+    if not math.isfinite(turn_rad):
+        raise NonFiniteInputError(f"the turn angle must be a finite number, got {turn_rad!r}")
+    if turn_rad == 0.0:
+        raise InvalidPathError("the turn angle must not be zero")
+    limit_rad = aircraft.max_steering_rad
+    low_m, high_m = MIN_RADIUS_FLOOR_M, steering_limited_radius_steady_state(aircraft)
+    if high_m <= low_m or _peak_steering_rad(aircraft, low_m, turn_rad) <= limit_rad:
+        return low_m
+    while high_m - low_m > RADIUS_TOLERANCE_M:
+        middle_m = 0.5 * (low_m + high_m)
+        if _peak_steering_rad(aircraft, middle_m, turn_rad) <= limit_rad:
+            high_m = middle_m
+        else:
+            low_m = middle_m
+    return high_m
+
+
+def _peak_steering_rad(aircraft: DesignAircraft, radius_m: float, turn_rad: float) -> float:
+    lead_m = SETTLING_LENGTH_CMG * aircraft.cmg_m
+    path = standard_turn_path(radius_m, turn_rad, lead_m, lead_m)
+    try:
+        pieces = _chain_pieces(path, aircraft, 0.0)
+    except RadiusTooSmallError:
+        return _HALF_PI
+    # alpha is monotone on each piece, so its extreme lies on a piece boundary.
+    peak_alpha = float(np.max(np.abs(pieces.all_alphas_rad())))
+    return float(steering_angle_rad(aircraft, np.array([peak_alpha]))[0])
+
+
+def _check_chord_tolerance(chord_tolerance_m: float) -> None:
+    if not math.isfinite(chord_tolerance_m):
+        raise NonFiniteInputError(f"the chord tolerance must be a finite number, got {chord_tolerance_m!r}")
+    if chord_tolerance_m < MIN_CHORD_TOLERANCE_M:
+        raise InvalidSweepSettingError(f"the chord tolerance must be at least {MIN_CHORD_TOLERANCE_M} m, "
+                                       f"got {chord_tolerance_m} m")
+
+
+def _check_initial_body_angle(alpha_rad: float) -> None:
+    if not math.isfinite(alpha_rad):
+        raise NonFiniteInputError(f"the initial body angle must be a finite number, got {alpha_rad!r}")
+    if abs(alpha_rad) >= _HALF_PI:
+        raise InvalidSweepSettingError(f"the initial body angle must lie strictly between -90 and 90 "
+                                       f"degrees, got {math.degrees(alpha_rad):.1f} degrees")
+
+
+def _piece_limit_m(curvature_per_m: float, cmg_m: float) -> float:
+    """Longest piece: keeps c, g of order one and the change of alpha below one radian."""
+    if abs(curvature_per_m) * cmg_m <= 1.0:
+        return 2.0 * cmg_m
+    return cmg_m / (1.0 + abs(curvature_per_m) * cmg_m)
+
+
+def _flow_scalar(m2: float, s_m: float) -> tuple[float, float]:
+    """c(s), g(s) of exp(A s) = c I + g A, where A^2 = m2 I (scalar version)."""
+    root = math.sqrt(abs(m2)) * s_m
+    if root == 0.0:
+        return 1.0, s_m
+    if m2 > 0.0:
+        return math.cosh(root), s_m * math.sinh(root) / root
+    return math.cos(root), s_m * math.sin(root) / root
+
+
+def _flow(m2: FloatArray, s_m: FloatArray) -> tuple[FloatArray, FloatArray]:
+    """c(s), g(s) of exp(A s) = c I + g A, where A^2 = m2 I (vectorised)."""
+    root = np.sqrt(np.abs(m2)) * s_m
+    hyperbolic = m2 > 0.0
+    c = np.where(hyperbolic, np.cosh(root), np.cos(root))
+    ratio = np.ones_like(root)  # sinh(x)/x or sin(x)/x, 1 at x = 0
+    nonzero = root > 0.0
+    ratio[nonzero] = np.where(hyperbolic[nonzero], np.sinh(root[nonzero]),
+                              np.sin(root[nonzero])) / root[nonzero]
+    return c, s_m * ratio
+
+
+def _m2(curvature_per_m: float | FloatArray, cmg_m: float) -> FloatArray:
+    """(1/d^2 - kappa^2) / 4, factored so that R == d gives exactly zero."""
+    inverse_d = 1.0 / cmg_m
+    kappa = np.abs(np.asarray(curvature_per_m, dtype=float))
+    return np.asarray((inverse_d - kappa) * (inverse_d + kappa) / 4.0, dtype=float)
+
+
+def _alpha_after_scalar(alpha0_rad: float, curvature_per_m: float, cmg_m: float, s_m: float) -> float:
+    c, g = _flow_scalar(float(_m2(curvature_per_m, cmg_m)), s_m)
+    return alpha0_rad + 2.0 * math.atan2(g * (curvature_per_m - math.sin(alpha0_rad) / cmg_m) / 2.0,
+                                         c + g * math.cos(alpha0_rad) / (2.0 * cmg_m))
+
+
+def _alpha_at(pieces: _Pieces, station_m: FloatArray) -> FloatArray:
+    """Body angle at cockpit stations, from the closed form of the piece each station lies on."""
+    which = np.clip(np.searchsorted(pieces.start_m, station_m, side="right") - 1, 0, len(pieces.start_m) - 1)
+    local_m = np.clip(station_m - pieces.start_m[which], 0.0, pieces.length_m[which])
+    alpha0 = pieces.start_alpha_rad[which]
+    kappa = pieces.curvature_per_m[which]
+    d = pieces.cmg_m
+    c, g = _flow(_m2(kappa, d), local_m)
+    # Denominator > 0 on every piece (c > 0, g >= 0, |alpha0| < pi/2): atan2 stays unambiguous.
+    half_turn = np.arctan2(g * (kappa - np.sin(alpha0) / d) / 2.0, c + g * np.cos(alpha0) / (2.0 * d))
+    return np.asarray(alpha0 + 2.0 * half_turn, dtype=float)
+
+
+def _chain_pieces(path: CenterlinePath, aircraft: DesignAircraft, alpha0_rad: float) -> _Pieces:
+    """Cut the path into pieces and carry alpha from each piece's start to its end."""
+    _check_initial_body_angle(alpha0_rad)
+    d = aircraft.cmg_m
+    starts: list[float] = []
+    lengths: list[float] = []
+    curvatures: list[float] = []
+    alphas = [alpha0_rad]
+    for segment, segment_start_m in zip(path.segments, path.segment_starts_m(), strict=True):
+        kappa = segment.curvature_per_m
+        count = max(1, math.ceil(segment.length_m / _piece_limit_m(kappa, d)))
+        piece_m = segment.length_m / count
+        for index in range(count):
+            starts.append(float(segment_start_m) + index * piece_m)
+            lengths.append(piece_m)
+            curvatures.append(kappa)
+            alphas.append(_alpha_after_scalar(alphas[-1], kappa, d, piece_m))
+            if abs(alphas[-1]) >= _HALF_PI:
+                raise _gear_rolls_backwards(aircraft, segment)
+    return _Pieces(np.array(starts), np.array(lengths), np.array(curvatures),
+                   np.array(alphas[:-1]), np.array(alphas[1:]), d, path.length_m)
+
+
+def _gear_rolls_backwards(aircraft: DesignAircraft, segment: object) -> RadiusTooSmallError:
+    radius = f"a {segment.radius_m:.1f} m radius" if isinstance(segment, Arc) else "this path"
+    return RadiusTooSmallError(
+        f"the design aircraft {aircraft.name!r} cannot follow {radius}: its main gear would have to "
+        f"roll backwards (cockpit-to-main-gear distance {aircraft.cmg_m:.1f} m). Use a larger radius "
+        f"or a smaller turn angle.")
+
+
+def _body_points(aircraft: DesignAircraft) -> FloatArray:
+    """Body-frame (forward, left) positions of every tracked point, from the main-gear centre."""
+    half_gear, half_span = aircraft.mgw_m / 2.0, aircraft.wingspan_m / 2.0
+    return np.array([[aircraft.cmg_m, 0.0], [0.0, half_gear], [0.0, -half_gear],
+                     [aircraft.wheelbase_m, 0.0], [aircraft.nose_x_m, 0.0], [aircraft.tail_x_m, 0.0],
+                     [aircraft.wingtip_x_m, half_span], [aircraft.wingtip_x_m, -half_span]])
+
+
+def _track_acceleration_bound(pieces: _Pieces, body_points: FloatArray) -> FloatArray:
+    """Per piece, an upper bound of |d^2 P/ds^2| over all tracked points P = M + a e + b n.
+
+    P'' = (-sin(alpha) alpha' - b w') e - a w^2 e + ((cos(alpha) - b w) w + a w') n, with
+    w = sin(alpha)/d and w' = cos(alpha) alpha'/d. alpha is monotone on a piece and within
+    (-pi/2, pi/2), so |alpha'| = |kappa - sin(alpha)/d| and |sin(alpha)| peak at its ends.
+    """
+    d = pieces.cmg_m
+    sin_start, sin_end = np.sin(pieces.start_alpha_rad), np.sin(pieces.end_alpha_rad)
+    rate = np.maximum(np.abs(pieces.curvature_per_m - sin_start / d),
+                      np.abs(pieces.curvature_per_m - sin_end / d))[:, None]
+    turn_rate = (np.maximum(np.abs(sin_start), np.abs(sin_end)) / d)[:, None]
+    forward, lateral = np.abs(body_points[:, 0])[None, :], np.abs(body_points[:, 1])[None, :]
+    bound = (rate * (1.0 + (forward + lateral) / d) + turn_rate * (1.0 + lateral * turn_rate)
+             + forward * turn_rate**2)
+    return np.asarray(bound.max(axis=1), dtype=float)
+
+
+def _sample_stations(pieces: _Pieces, body_points: FloatArray, chord_tolerance_m: float) -> FloatArray:
+    """Stations: every piece start, then steps with sagitta step^2 * bound / 8 <= tolerance."""
+    bound = _track_acceleration_bound(pieces, body_points)
+    counts = np.maximum(1, np.ceil(pieces.length_m * np.sqrt(bound / (8.0 * chord_tolerance_m)))).astype(int)
+    which = np.repeat(np.arange(len(counts)), counts)
+    first_of_piece = np.repeat(np.cumsum(counts) - counts, counts)
+    fraction = (np.arange(counts.sum()) - first_of_piece) / counts[which]
+    stations = pieces.start_m[which] + fraction * pieces.length_m[which]
+    return np.append(stations, pieces.path_length_m)
+
+
+def _swept_path(path: CenterlinePath, aircraft: DesignAircraft, station_m: FloatArray,
+                alpha_rad: FloatArray) -> SweptPath:
+    cockpit_xy, tangent_heading_rad, _ = path.evaluate(station_m)
+    body_heading_rad = tangent_heading_rad - alpha_rad
+    forward = np.column_stack((np.cos(body_heading_rad), np.sin(body_heading_rad)))
+    left = np.column_stack((-forward[:, 1], forward[:, 0]))
+    main_gear_xy = cockpit_xy - aircraft.cmg_m * forward
+
+    def body_point(forward_m: float, left_m: float = 0.0) -> FloatArray:
+        return np.asarray(main_gear_xy + forward_m * forward + left_m * left, dtype=float)
+
+    half_gear, half_span = aircraft.mgw_m / 2.0, aircraft.wingspan_m / 2.0
+    left_edge_xy, right_edge_xy = body_point(0.0, half_gear), body_point(0.0, -half_gear)
+    count = len(station_m)
+    offsets = lateral_offset_m(path, np.vstack((main_gear_xy, left_edge_xy, right_edge_xy)), extend_ends=True)
+    return SweptPath(
+        path=path, aircraft=aircraft, station_m=station_m, cockpit_xy=cockpit_xy,
+        body_heading_rad=body_heading_rad, body_angle_rad=alpha_rad, main_gear_xy=main_gear_xy,
+        gear_left_edge_xy=left_edge_xy, gear_right_edge_xy=right_edge_xy,
+        nose_gear_xy=body_point(aircraft.wheelbase_m), nose_xy=body_point(aircraft.nose_x_m),
+        tail_xy=body_point(aircraft.tail_x_m),
+        wingtip_left_xy=body_point(aircraft.wingtip_x_m, half_span),
+        wingtip_right_xy=body_point(aircraft.wingtip_x_m, -half_span),
+        steering_rad=steering_angle_rad(aircraft, alpha_rad),
+        gear_offset_m=offsets[:count], left_edge_offset_m=offsets[count:2 * count],
+        right_edge_offset_m=offsets[2 * count:])
