@@ -41,8 +41,10 @@ def _add_sweep(commands: argparse._SubParsersAction) -> None:  # type: ignore[ty
 
 
 def build_parser() -> argparse.ArgumentParser:
-    parser = _Parser(prog="taxiwright", description="Taxiway layout sketcher (preliminary planning only).")
-    parser.add_argument("layout", nargs="?", help="a layout file to open in the desktop program")
+    # ``taxiwright LAYOUT`` is rewritten to ``taxiwright open LAYOUT`` by main(): a positional here
+    # would swallow the command name ("check") and leave its file name to be read as the command.
+    parser = _Parser(prog="taxiwright", description="Taxiway layout sketcher (preliminary planning only).",
+                     usage="taxiwright [LAYOUT] | taxiwright {open,sweep,check,export} ...")
     commands = parser.add_subparsers(dest="command", parser_class=_Parser)
     opener = commands.add_parser("open", help="open the desktop program on a layout")
     opener.add_argument("layout", nargs="?")
@@ -65,7 +67,9 @@ def main(argv: Sequence[str] | None = None) -> int:
     if raw and raw[0] not in known:
         raw = ["open", *raw]
     args = build_parser().parse_args(raw)
-    if args.command in (None, "open"):
+    if args.command is None:  # no arguments at all: the desktop program on a new layout
+        args = build_parser().parse_args(["open"])
+    if args.command == "open":
         return run_open(args)
     runner = {"sweep": run_sweep, "check": run_check, "export": run_export}[args.command]
     return runner(args)

@@ -133,9 +133,10 @@ def run_sweep(args: argparse.Namespace) -> int:
 
 
 def run_open(args: argparse.Namespace) -> int:
+    from app.model.analysis import LayoutAnalyzer
     from app.ui.launch import run
 
-    return run(args.layout, getattr(args, "screenshot", None))
+    return run(args.layout, getattr(args, "screenshot", None), analyze=LayoutAnalyzer().analyze)
 
 
 def run_check(args: argparse.Namespace) -> int:

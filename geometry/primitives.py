@@ -10,7 +10,6 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Union
 
 import numpy as np
 import numpy.typing as npt
@@ -109,8 +108,11 @@ class Arc:
 
     @property
     def end(self) -> Point:
-        x, y = self.points_at(np.array([self.length_m]))[0]
-        return (float(x), float(y))
+        # points_at(length) for one point, without building arrays; numpy's cos and sin, as in
+        # points_at, so the end point is the very value points_at gives.
+        cx, cy = self.center
+        polar = self.start_heading_rad + self.length_m * self.curvature_per_m - self.side * math.pi / 2.0
+        return (float(cx + self.radius_m * np.cos(polar)), float(cy + self.radius_m * np.sin(polar)))
 
     def headings_at(self, s_m: FloatArray) -> FloatArray:
         return self.start_heading_rad + np.asarray(s_m, dtype=float) * self.curvature_per_m
@@ -124,4 +126,4 @@ class Arc:
                                 cy + self.radius_m * np.sin(polar)))
 
 
-Segment = Union[Straight, Arc]
+Segment = Straight | Arc

@@ -23,6 +23,7 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
+import numpy.typing as npt
 
 from geometry.aircraft import DesignAircraft
 from geometry.errors import (
@@ -97,7 +98,9 @@ class SweptPath:
 
 @dataclass(frozen=True, slots=True, eq=False)
 class _Pieces:
-    """The closed form chained along the path: each piece has constant curvature."""
+    """The closed form chained along the path: each piece has constant curvature. Besides each
+    piece's start, length, curvature and end angles it keeps the per-piece constants of the flow
+    (m2, sqrt|m2| and its inverse) and of the half-angle formula, so stations only gather them."""
 
     start_m: FloatArray
     length_m: FloatArray
@@ -106,6 +109,24 @@ class _Pieces:
     end_alpha_rad: FloatArray
     cmg_m: float
     path_length_m: float
+    m2: FloatArray               # (1/d^2 - kappa^2) / 4
+    root_m2: FloatArray          # sqrt(|m2|)
+    inverse_root_m2: FloatArray  # 1 / sqrt(|m2|), 0 where m2 == 0 (that case uses g = s)
+    rate_half: FloatArray        # (kappa - sin(alpha0) / d) / 2
+    cos_half: FloatArray         # cos(alpha0) / (2 d)
+
+    @staticmethod
+    def build(start_m: FloatArray, length_m: FloatArray, curvature_per_m: FloatArray,
+              alphas_rad: FloatArray, cmg_m: float, path_length_m: float) -> _Pieces:
+        start_alpha = alphas_rad[:-1]
+        inverse_d = 1.0 / cmg_m
+        kappa = np.abs(curvature_per_m)
+        m2 = (inverse_d - kappa) * (inverse_d + kappa) / 4.0  # factored: R == d gives exactly zero
+        root = np.sqrt(np.abs(m2))
+        inverse_root = np.divide(1.0, root, out=np.zeros_like(root), where=root > 0.0)
+        rate_half = (curvature_per_m - np.sin(start_alpha) / cmg_m) / 2.0
+        return _Pieces(start_m, length_m, curvature_per_m, start_alpha, alphas_rad[1:], cmg_m, path_length_m,
+                       m2, root, inverse_root, rate_half, np.cos(start_alpha) / (2.0 * cmg_m))
 
     def all_alphas_rad(self) -> FloatArray:
         return np.append(self.start_alpha_rad, self.end_alpha_rad[-1])
@@ -140,8 +161,8 @@ def sweep(path: CenterlinePath, aircraft: DesignAircraft, *,
     """
     _check_chord_tolerance(chord_tolerance_m)
     pieces = _chain_pieces(path, aircraft, initial_body_angle_rad)
-    station_m = _sample_stations(pieces, _body_points(aircraft), chord_tolerance_m)
-    return _swept_path(path, aircraft, station_m, _alpha_at(pieces, station_m))
+    station_m, which, local_m = _sample_stations(pieces, _body_points(aircraft), chord_tolerance_m)
+    return _swept_path(path, aircraft, station_m, _alpha_at(pieces, which, local_m))
 
 
 def sweep_at_stations(path: CenterlinePath, aircraft: DesignAircraft, station_m: FloatArray, *,
@@ -155,7 +176,10 @@ def sweep_at_stations(path: CenterlinePath, aircraft: DesignAircraft, station_m:
     if stations.min() < 0.0 or stations.max() > path.length_m:
         raise GeometryError(f"stations must lie between 0 and the path length {path.length_m:.3f} m")
     pieces = _chain_pieces(path, aircraft, initial_body_angle_rad)
-    return _swept_path(path, aircraft, stations, _alpha_at(pieces, stations))
+    which = np.searchsorted(pieces.start_m, stations, side="right") - 1
+    np.clip(which, 0, len(pieces.start_m) - 1, out=which)
+    local_m = np.clip(stations - pieces.start_m[which], 0.0, pieces.length_m[which])
+    return _swept_path(path, aircraft, stations, _alpha_at(pieces, which, local_m))
 
 
 def steering_angle_rad(aircraft: DesignAircraft, body_angle_rad: FloatArray) -> FloatArray:
@@ -244,42 +268,41 @@ def _flow_scalar(m2: float, s_m: float) -> tuple[float, float]:
     return math.cos(root), s_m * math.sin(root) / root
 
 
-def _flow(m2: FloatArray, s_m: FloatArray) -> tuple[FloatArray, FloatArray]:
-    """c(s), g(s) of exp(A s) = c I + g A, where A^2 = m2 I (vectorised)."""
-    root = np.sqrt(np.abs(m2)) * s_m
-    hyperbolic = m2 > 0.0
-    c = np.where(hyperbolic, np.cosh(root), np.cos(root))
-    ratio = np.ones_like(root)  # sinh(x)/x or sin(x)/x, 1 at x = 0
-    nonzero = root > 0.0
-    ratio[nonzero] = np.where(hyperbolic[nonzero], np.sinh(root[nonzero]),
-                              np.sin(root[nonzero])) / root[nonzero]
-    return c, s_m * ratio
-
-
-def _m2(curvature_per_m: float | FloatArray, cmg_m: float) -> FloatArray:
-    """(1/d^2 - kappa^2) / 4, factored so that R == d gives exactly zero."""
-    inverse_d = 1.0 / cmg_m
-    kappa = np.abs(np.asarray(curvature_per_m, dtype=float))
-    return np.asarray((inverse_d - kappa) * (inverse_d + kappa) / 4.0, dtype=float)
-
-
 def _alpha_after_scalar(alpha0_rad: float, curvature_per_m: float, cmg_m: float, s_m: float) -> float:
-    c, g = _flow_scalar(float(_m2(curvature_per_m, cmg_m)), s_m)
+    inverse_d, kappa = 1.0 / cmg_m, abs(curvature_per_m)
+    c, g = _flow_scalar((inverse_d - kappa) * (inverse_d + kappa) / 4.0, s_m)  # m2, as in _Pieces.build
     return alpha0_rad + 2.0 * math.atan2(g * (curvature_per_m - math.sin(alpha0_rad) / cmg_m) / 2.0,
                                          c + g * math.cos(alpha0_rad) / (2.0 * cmg_m))
 
 
-def _alpha_at(pieces: _Pieces, station_m: FloatArray) -> FloatArray:
-    """Body angle at cockpit stations, from the closed form of the piece each station lies on."""
-    which = np.clip(np.searchsorted(pieces.start_m, station_m, side="right") - 1, 0, len(pieces.start_m) - 1)
-    local_m = np.clip(station_m - pieces.start_m[which], 0.0, pieces.length_m[which])
-    alpha0 = pieces.start_alpha_rad[which]
-    kappa = pieces.curvature_per_m[which]
-    d = pieces.cmg_m
-    c, g = _flow(_m2(kappa, d), local_m)
+def _flow(pieces: _Pieces, which: npt.NDArray[np.intp], local_m: FloatArray) -> tuple[FloatArray, FloatArray]:
+    """c, g of exp(A s) = c I + g A (A^2 = m2 I) at each station, from its piece and local distance.
+
+    g = sinh(k s)/k (m2 = k^2 > 0), sin(k s)/k (m2 = -k^2 < 0) or s (m2 = 0): written with 1/k
+    per piece, so there is no 0/0 at a piece start. Each family is evaluated only if some piece
+    needs it (on most paths every piece is hyperbolic: straights, and arcs wider than d).
+    """
+    m2 = pieces.m2[which]
+    root = pieces.root_m2[which] * local_m
+    hyperbolic, circular = m2 > 0.0, m2 < 0.0
+    c = np.ones_like(local_m)
+    g = local_m.copy()  # the m2 == 0 case
+    inverse_root = pieces.inverse_root_m2[which]
+    for family, (cos_like, sin_like) in ((hyperbolic, (np.cosh, np.sinh)), (circular, (np.cos, np.sin))):
+        if family.all():
+            return cos_like(root), sin_like(root) * inverse_root
+        if family.any():
+            np.copyto(c, cos_like(root), where=family)
+            np.copyto(g, sin_like(root) * inverse_root, where=family)
+    return c, g
+
+
+def _alpha_at(pieces: _Pieces, which: npt.NDArray[np.intp], local_m: FloatArray) -> FloatArray:
+    """Body angle at stations given by their piece and distance into it, from the closed form."""
+    c, g = _flow(pieces, which, local_m)
     # Denominator > 0 on every piece (c > 0, g >= 0, |alpha0| < pi/2): atan2 stays unambiguous.
-    half_turn = np.arctan2(g * (kappa - np.sin(alpha0) / d) / 2.0, c + g * np.cos(alpha0) / (2.0 * d))
-    return np.asarray(alpha0 + 2.0 * half_turn, dtype=float)
+    half_turn = np.arctan2(g * pieces.rate_half[which], c + g * pieces.cos_half[which])
+    return np.asarray(pieces.start_alpha_rad[which] + 2.0 * half_turn, dtype=float)
 
 
 def _chain_pieces(path: CenterlinePath, aircraft: DesignAircraft, alpha0_rad: float) -> _Pieces:
@@ -290,19 +313,19 @@ def _chain_pieces(path: CenterlinePath, aircraft: DesignAircraft, alpha0_rad: fl
     lengths: list[float] = []
     curvatures: list[float] = []
     alphas = [alpha0_rad]
-    for segment, segment_start_m in zip(path.segments, path.segment_starts_m(), strict=True):
+    for segment, segment_start_m in zip(path.segments, path.arrays.starts_m.tolist(), strict=True):
         kappa = segment.curvature_per_m
         count = max(1, math.ceil(segment.length_m / _piece_limit_m(kappa, d)))
         piece_m = segment.length_m / count
         for index in range(count):
-            starts.append(float(segment_start_m) + index * piece_m)
+            starts.append(segment_start_m + index * piece_m)
             lengths.append(piece_m)
             curvatures.append(kappa)
             alphas.append(_alpha_after_scalar(alphas[-1], kappa, d, piece_m))
             if abs(alphas[-1]) >= _HALF_PI:
                 raise _gear_rolls_backwards(aircraft, segment)
-    return _Pieces(np.array(starts), np.array(lengths), np.array(curvatures),
-                   np.array(alphas[:-1]), np.array(alphas[1:]), d, path.length_m)
+    return _Pieces.build(np.array(starts), np.array(lengths), np.array(curvatures), np.array(alphas), d,
+                         path.length_m)
 
 
 def _gear_rolls_backwards(aircraft: DesignAircraft, segment: object) -> RadiusTooSmallError:
@@ -314,11 +337,19 @@ def _gear_rolls_backwards(aircraft: DesignAircraft, segment: object) -> RadiusTo
 
 
 def _body_points(aircraft: DesignAircraft) -> FloatArray:
-    """Body-frame (forward, left) positions of every tracked point, from the main-gear centre."""
+    """Body-frame (forward, left) positions of every tracked point, from the main-gear centre, in
+    the order of :data:`_TRACKS` (the three whose offsets are measured come first)."""
     half_gear, half_span = aircraft.mgw_m / 2.0, aircraft.wingspan_m / 2.0
-    return np.array([[aircraft.cmg_m, 0.0], [0.0, half_gear], [0.0, -half_gear],
-                     [aircraft.wheelbase_m, 0.0], [aircraft.nose_x_m, 0.0], [aircraft.tail_x_m, 0.0],
-                     [aircraft.wingtip_x_m, half_span], [aircraft.wingtip_x_m, -half_span]])
+    return np.array([[0.0, 0.0], [0.0, half_gear], [0.0, -half_gear], [aircraft.wheelbase_m, 0.0],
+                     [aircraft.nose_x_m, 0.0], [aircraft.tail_x_m, 0.0], [aircraft.wingtip_x_m, half_span],
+                     [aircraft.wingtip_x_m, -half_span], [aircraft.cmg_m, 0.0]])
+
+
+# The tracks built from body points, in _body_points order; the cockpit (last body point) is not
+# among them: it is the path's own point.
+_TRACKS = ("main_gear_xy", "gear_left_edge_xy", "gear_right_edge_xy", "nose_gear_xy", "nose_xy", "tail_xy",
+           "wingtip_left_xy", "wingtip_right_xy")
+_OFFSET_TRACKS = 3  # main gear centre and the two outer tyre edges
 
 
 def _track_acceleration_bound(pieces: _Pieces, body_points: FloatArray) -> FloatArray:
@@ -326,53 +357,55 @@ def _track_acceleration_bound(pieces: _Pieces, body_points: FloatArray) -> Float
 
     P'' = (-sin(alpha) alpha' - b w') e - a w^2 e + ((cos(alpha) - b w) w + a w') n, with
     w = sin(alpha)/d and w' = cos(alpha) alpha'/d. alpha is monotone on a piece and within
-    (-pi/2, pi/2), so |alpha'| = |kappa - sin(alpha)/d| and |sin(alpha)| peak at its ends.
+    (-pi/2, pi/2), so |alpha'| <= r = max |kappa - sin(alpha)/d| and |w| <= t = max |sin(alpha)|/d
+    over its ends. Term by term, |P''| <= r (1 + (|a| + |b|)/d) + t (1 + |b| t) + |a| t^2
+    = r + t + (|a| + |b|) (r/d + t^2): the largest |a| + |b| of the body points bounds them all.
     """
     d = pieces.cmg_m
     sin_start, sin_end = np.sin(pieces.start_alpha_rad), np.sin(pieces.end_alpha_rad)
-    rate = np.maximum(np.abs(pieces.curvature_per_m - sin_start / d),
-                      np.abs(pieces.curvature_per_m - sin_end / d))[:, None]
-    turn_rate = (np.maximum(np.abs(sin_start), np.abs(sin_end)) / d)[:, None]
-    forward, lateral = np.abs(body_points[:, 0])[None, :], np.abs(body_points[:, 1])[None, :]
-    bound = (rate * (1.0 + (forward + lateral) / d) + turn_rate * (1.0 + lateral * turn_rate)
-             + forward * turn_rate**2)
-    return np.asarray(bound.max(axis=1), dtype=float)
+    kappa = pieces.curvature_per_m
+    rate = np.maximum(np.abs(kappa - sin_start / d), np.abs(kappa - sin_end / d))
+    turn_rate = np.maximum(np.abs(sin_start), np.abs(sin_end)) / d
+    reach_m = float(np.max(np.abs(body_points).sum(axis=1)))
+    return np.asarray(rate + turn_rate + reach_m * (rate / d + turn_rate * turn_rate), dtype=float)
 
 
-def _sample_stations(pieces: _Pieces, body_points: FloatArray, chord_tolerance_m: float) -> FloatArray:
-    """Stations: every piece start, then steps with sagitta step^2 * bound / 8 <= tolerance."""
+def _sample_stations(pieces: _Pieces, body_points: FloatArray, chord_tolerance_m: float
+                     ) -> tuple[FloatArray, npt.NDArray[np.intp], FloatArray]:
+    """Stations: every piece start, then steps with sagitta step^2 * bound / 8 <= tolerance; with
+    each station's piece and its distance into that piece (the path end closes the last piece)."""
     bound = _track_acceleration_bound(pieces, body_points)
     counts = np.maximum(1, np.ceil(pieces.length_m * np.sqrt(bound / (8.0 * chord_tolerance_m)))).astype(int)
     which = np.repeat(np.arange(len(counts)), counts)
     first_of_piece = np.repeat(np.cumsum(counts) - counts, counts)
     fraction = (np.arange(counts.sum()) - first_of_piece) / counts[which]
-    stations = pieces.start_m[which] + fraction * pieces.length_m[which]
-    return np.append(stations, pieces.path_length_m)
+    local_m = fraction * pieces.length_m[which]
+    stations = np.append(pieces.start_m[which] + local_m, pieces.path_length_m)
+    last = len(counts) - 1
+    return stations, np.append(which, last), np.append(local_m, pieces.length_m[last])
 
 
 def _swept_path(path: CenterlinePath, aircraft: DesignAircraft, station_m: FloatArray,
                 alpha_rad: FloatArray) -> SweptPath:
     cockpit_xy, tangent_heading_rad, _ = path.evaluate(station_m)
     body_heading_rad = tangent_heading_rad - alpha_rad
-    forward = np.column_stack((np.cos(body_heading_rad), np.sin(body_heading_rad)))
-    left = np.column_stack((-forward[:, 1], forward[:, 0]))
-    main_gear_xy = cockpit_xy - aircraft.cmg_m * forward
-
-    def body_point(forward_m: float, left_m: float = 0.0) -> FloatArray:
-        return np.asarray(main_gear_xy + forward_m * forward + left_m * left, dtype=float)
-
-    half_gear, half_span = aircraft.mgw_m / 2.0, aircraft.wingspan_m / 2.0
-    left_edge_xy, right_edge_xy = body_point(0.0, half_gear), body_point(0.0, -half_gear)
     count = len(station_m)
-    offsets = lateral_offset_m(path, np.vstack((main_gear_xy, left_edge_xy, right_edge_xy)), extend_ends=True)
+    # The body frame at every station: basis[0] forward (cos, sin), basis[1] left (-sin, cos).
+    basis = np.empty((2, count, 2))
+    np.cos(body_heading_rad, out=basis[0, :, 0])
+    np.sin(body_heading_rad, out=basis[0, :, 1])
+    np.negative(basis[0, :, 1], out=basis[1, :, 0])
+    basis[1, :, 1] = basis[0, :, 0]
+    main_gear_xy = cockpit_xy - aircraft.cmg_m * basis[0]
+    # Every tracked point at once, one small matrix product: (tracks, stations, 2), each track a
+    # contiguous slice.
+    tracks = (_body_points(aircraft)[:-1] @ basis.reshape(2, -1)).reshape(-1, count, 2)
+    tracks += main_gear_xy
+    tracks[0] = main_gear_xy
+    offsets = lateral_offset_m(path, tracks[:_OFFSET_TRACKS].reshape(-1, 2), extend_ends=True)
     return SweptPath(
         path=path, aircraft=aircraft, station_m=station_m, cockpit_xy=cockpit_xy,
-        body_heading_rad=body_heading_rad, body_angle_rad=alpha_rad, main_gear_xy=main_gear_xy,
-        gear_left_edge_xy=left_edge_xy, gear_right_edge_xy=right_edge_xy,
-        nose_gear_xy=body_point(aircraft.wheelbase_m), nose_xy=body_point(aircraft.nose_x_m),
-        tail_xy=body_point(aircraft.tail_x_m),
-        wingtip_left_xy=body_point(aircraft.wingtip_x_m, half_span),
-        wingtip_right_xy=body_point(aircraft.wingtip_x_m, -half_span),
+        body_heading_rad=body_heading_rad, body_angle_rad=alpha_rad,
         steering_rad=steering_angle_rad(aircraft, alpha_rad),
         gear_offset_m=offsets[:count], left_edge_offset_m=offsets[count:2 * count],
-        right_edge_offset_m=offsets[2 * count:])
+        right_edge_offset_m=offsets[2 * count:], **dict(zip(_TRACKS, tracks, strict=True)))

@@ -43,6 +43,7 @@ from app.model.elements import (
     Runway,
     Vertex,
 )
+from app.model.underlays import UNDERLAY_KINDS, Placement, Underlay, UnderlayError, underlay_problem
 from geometry.aircraft import DesignAircraft
 from geometry.units import LENGTH_UNITS, from_metres, to_metres
 
@@ -51,6 +52,11 @@ APPLICATION = "taxiwright"
 MAX_FILE_BYTES = 64 * 1024 * 1024
 MAX_ELEMENTS = 100_000
 MAX_VERTICES = 1_000_000  # centerline and runway vertices plus outline and hole points
+# Counted in the raw bytes before parsing, so that a small file of "[{},{},...]" cannot make the
+# parser build tens of millions of objects (a 64 MiB one takes 1.7 GB; docs/robustness.md). A file
+# at MAX_VERTICES, as written by save_layout, holds about 1.5 million brackets and 3 million commas.
+MAX_JSON_CONTAINERS = 3 * MAX_VERTICES
+MAX_JSON_ITEMS = 8 * MAX_VERTICES
 
 JsonObject = dict[str, Any]
 _T = TypeVar("_T")
@@ -62,8 +68,9 @@ class LayoutFileError(ValueError):
 
 # --- writing -----------------------------------------------------------------------------------
 
-def layout_to_dict(layout: Layout) -> JsonObject:
-    """The JSON object of ``layout``, lengths in ``layout.units``."""
+def layout_to_dict(layout: Layout, base_dir: Path | None = None) -> JsonObject:
+    """The JSON object of ``layout``, lengths in ``layout.units``; underlay paths relative to
+    ``base_dir`` (the layout file's folder) when possible."""
     def length(value_m: float) -> float:
         return from_metres(value_m, layout.units)
 
@@ -94,27 +101,46 @@ def layout_to_dict(layout: Layout) -> JsonObject:
         "excluded_movements": sorted(layout.excluded_movements),
         "turn_radius_overrides": [{"corner": key, "radius": length(radius_m)}
                                   for key, radius_m in layout.turn_radius_overrides_m],
+        "underlays": [_underlay_to_dict(u, length, base_dir) for u in layout.underlays],
     }
 
 
-def layout_to_bytes(layout: Layout) -> bytes:
+def _underlay_to_dict(u: Underlay, length: Callable[[float], float], base_dir: Path | None) -> JsonObject:
+    relative = _relative_path(u.path, base_dir)
+    return {"id": u.id, "name": u.name, "kind": u.kind, "path": relative,
+            **({"absolute_path": u.path} if relative != u.path else {}),
+            "visible": u.visible, "locked": u.locked, "opacity": u.opacity,
+            "hidden_layers": sorted(u.hidden_layers), "assumed_units": u.assumed_units,
+            "placement": None if u.placement is None else [length(t) for t in u.placement.terms()]}
+
+
+def _relative_path(path: str, base_dir: Path | None) -> str:
+    if base_dir is None:
+        return path
     try:
-        text = json.dumps(layout_to_dict(layout), indent=1, ensure_ascii=False, allow_nan=False)
+        return Path(os.path.relpath(path, base_dir)).as_posix()
+    except ValueError:  # another drive (Windows): only the absolute path can find it
+        return path
+
+
+def layout_to_bytes(layout: Layout, base_dir: Path | None = None) -> bytes:
+    try:
+        text = json.dumps(layout_to_dict(layout, base_dir), indent=1, ensure_ascii=False, allow_nan=False)
+        return (text + "\n").encode("utf-8")  # UnicodeEncodeError (a lone surrogate) is a ValueError
     except ValueError as error:
         raise LayoutFileError(f"cannot save the layout: {error}") from error
-    return (text + "\n").encode("utf-8")
 
 
 def save_layout(layout: Layout, path: Path | str) -> None:
     """Write ``layout`` to ``path`` atomically (raises ``FileWriteError`` if it cannot)."""
-    write_atomic(path, layout_to_bytes(layout))
+    write_atomic(path, layout_to_bytes(layout, Path(path).absolute().parent))
 
 
 # --- reading: file and JSON ----------------------------------------------------------------------
 
 def load_layout(path: Path | str) -> Layout:
     """Read a layout file of any known format version."""
-    return layout_from_dict(_parse_json(_read_bytes(Path(path))))
+    return layout_from_dict(_parse_json(_read_bytes(Path(path))), Path(path).absolute().parent)
 
 
 def _read_bytes(path: Path) -> bytes:
@@ -134,6 +160,7 @@ def _read_bytes(path: Path) -> bytes:
 
 
 def _parse_json(data: bytes) -> Any:
+    _check_json_size(data)
     try:
         text = data.decode("utf-8-sig")
     except UnicodeDecodeError as error:
@@ -150,6 +177,17 @@ def _parse_json(data: bytes) -> Any:
         raise
     except ValueError as error:  # e.g. an integer with thousands of digits
         raise LayoutFileError(f"not valid JSON ({error})") from error
+
+
+def _check_json_size(data: bytes) -> None:
+    """Refuse, before parsing, bytes that would make more JSON values than any layout file holds.
+    Brackets and commas inside strings count too: an over-count, harmless at these limits."""
+    containers = data.count(b"{") + data.count(b"[")
+    if containers > MAX_JSON_CONTAINERS:
+        raise LayoutFileError(f"the file holds more than {MAX_JSON_CONTAINERS:,} JSON objects and lists; "
+                              f"not a layout file")
+    if data.count(b",") > MAX_JSON_ITEMS:
+        raise LayoutFileError(f"the file holds more than {MAX_JSON_ITEMS:,} JSON values; not a layout file")
 
 
 def _object_without_duplicates(pairs: list[tuple[str, Any]]) -> JsonObject:
@@ -245,6 +283,11 @@ def _list(value: Any, path: str) -> list[Any]:
 def _string(value: Any, path: str) -> str:
     if not isinstance(value, str):
         raise LayoutFileError(f"{path}: expected text, got {_show(value)}")
+    try:
+        value.encode("utf-8")
+    except UnicodeEncodeError as error:  # JSON allows "\ud800" escapes; such text could never be saved
+        raise LayoutFileError(f"{path}: character {error.start + 1} is half of a UTF-16 pair, "
+                              f"not text") from error
     return value
 
 
@@ -367,6 +410,51 @@ class _Reader:
             tuple(self.points(hole, f"{path}.holes[{i}]", 3) for i, hole in enumerate(holes)))
 
 
+def _bool(data: JsonObject, key: str, path: str, default: bool) -> bool:
+    value = _field(data, key, path, default)
+    if not isinstance(value, bool):
+        raise LayoutFileError(f"{_at(path, key)}: expected true or false, got {_show(value)}")
+    return value
+
+
+def _underlay(data: JsonObject, path: str, units: str, base_dir: Path | None) -> Underlay:
+    kind = _choice(_field(data, "kind", path), UNDERLAY_KINDS, f"{path}.kind")
+    opacity = _number(_field(data, "opacity", path, 0.6), f"{path}.opacity")
+    hidden = _list(_field(data, "hidden_layers", path, []), f"{path}.hidden_layers")
+    assumed = _field(data, "assumed_units", path, None)
+    terms = _field(data, "placement", path, None)
+    if terms is not None and (not isinstance(terms, list) or len(terms) != 6):
+        raise LayoutFileError(f"{path}.placement: expected the 6 terms A, D, B, E, C, F, got {_show(terms)}")
+    try:
+        underlay = Underlay(
+            _string(_field(data, "id", path), f"{path}.id"),
+            _string(_field(data, "name", path, ""), f"{path}.name"), kind,
+            _file_path(data, path, base_dir), _bool(data, "visible", path, True),
+            _bool(data, "locked", path, True), opacity,
+            frozenset(_string(name, f"{path}.hidden_layers[{i}]") for i, name in enumerate(hidden)),
+            None if assumed is None else _choice(assumed, LENGTH_UNITS, f"{path}.assumed_units"),
+            None if terms is None else Placement(*(_metres(t, f"{path}.placement[{i}]", units)
+                                                  for i, t in enumerate(terms))))
+    except UnderlayError as error:
+        raise LayoutFileError(f"{path}.placement: {error}") from error
+    problem = underlay_problem(underlay)
+    if problem is not None:
+        raise LayoutFileError(f"{path}: {problem}")
+    return underlay
+
+
+def _file_path(data: JsonObject, path: str, base_dir: Path | None) -> str:
+    """The underlay's absolute path: the stored path against the layout's folder; if no file is
+    there, the absolute path saved beside it (the layout file was moved without its underlays)."""
+    stored = Path(_string(_field(data, "path", path), f"{path}.path"))
+    resolved = stored if stored.is_absolute() or base_dir is None else base_dir / stored
+    fallback = _field(data, "absolute_path", path, None)
+    fallback_path = None if fallback is None else Path(_string(fallback, f"{path}.absolute_path"))
+    if fallback_path is not None and not resolved.exists() and fallback_path.exists():
+        resolved = fallback_path
+    return os.path.normpath(os.path.abspath(resolved))
+
+
 def _optional_choice(data: JsonObject, key: str, allowed: tuple[str, ...], path: str) -> str | None:
     value = _field(data, key, path, None)
     return None if value is None else _choice(value, allowed, _at(path, key))
@@ -376,6 +464,8 @@ def _aircraft_from_dict(value: Any, path: str) -> DesignAircraft:
     data = _object(value, path)
     # Keys this version does not know are left out (forward compatibility), unlike in a library file.
     known = {key: data[key] for key in AIRCRAFT_FIELDS if key in data}
+    if isinstance(known.get("name"), str):
+        _string(known["name"], _at(path, "name"))
     for key in NUMBER_FIELDS:
         if key in known:
             known[key] = (_metres(known[key], _at(path, key), "m") if key.endswith("_m")
@@ -440,8 +530,9 @@ def _settings(data: JsonObject, units: str) -> dict[str, Any]:
             "turn_radius_overrides_m": tuple(sorted(overrides.items()))}
 
 
-def layout_from_dict(data: Any) -> Layout:
-    """The layout of a parsed layout file (of any known version); ``data`` is not changed."""
+def layout_from_dict(data: Any, base_dir: Path | None = None) -> Layout:
+    """The layout of a parsed layout file (of any known version); ``data`` is not changed.
+    Relative underlay paths are taken from ``base_dir`` (the layout file's folder)."""
     data = _object(data, "")
     application = _field(data, "application", "")
     if application != APPLICATION:
@@ -458,6 +549,8 @@ def layout_from_dict(data: Any) -> Layout:
         runways=_elements(data, "runways", reader.runway),
         objects=_elements(data, "objects", reader.fixed_object),
         existing_pavements=_elements(data, "existing_pavements", reader.pavement),
+        underlays=tuple(_underlay(_object(item, f"underlays[{i}]"), f"underlays[{i}]", units, base_dir)
+                        for i, item in enumerate(_list(_field(data, "underlays", "", []), "underlays"))),
         **_settings(data, units))
     try:
         check_layout(layout)  # the model's own rules, in case the reader missed one

@@ -36,8 +36,10 @@ from app.model.elements import (
     element_tuples,
     iter_elements,
 )
-from app.model.ids import element_by_id, element_ids
+from app.model.ids import PAVEMENT_PREFIX, element_by_id, element_ids, new_id
+from app.model.underlays import PavementPart, Underlay, pavement_parts, underlay_by_id, underlay_problem
 from geometry.aircraft import DesignAircraft
+from geometry.centerline import DUPLICATE_VERTEX_TOLERANCE_M
 from geometry.units import LENGTH_UNITS, LengthUnit
 
 
@@ -98,11 +100,22 @@ def _check_vertices(vertices: tuple[Vertex, ...], owner: str) -> None:
         _optional_positive(vertex.corner_radius_m, f"{owner}: corner radius at vertex {index}")
 
 
+def _check_has_length(vertices: tuple[Vertex, ...], owner: str) -> None:
+    """Refuse a line whose vertices all lie on one point: it has no direction, so it can make no
+    segment, junction or pavement (the engine merges vertices this close; geometry.centerline)."""
+    first = vertices[0]
+    if all(math.hypot(v.x_m - first.x_m, v.y_m - first.y_m) <= DUPLICATE_VERTEX_TOLERANCE_M
+           for v in vertices):
+        raise EditError(f"{owner} has all its vertices at one point ({first.x_m:g}, {first.y_m:g}) m: "
+                        f"move a vertex away, or delete it")
+
+
 def _check_centerline(centerline: Centerline) -> None:
     owner = f"centerline {centerline.id!r}"
     if not isinstance(centerline.vertices, tuple) or len(centerline.vertices) < 2:
         raise EditError(f"{owner} needs at least 2 vertices")
     _check_vertices(centerline.vertices, owner)
+    _check_has_length(centerline.vertices, owner)
     for end in (centerline.vertices[0], centerline.vertices[-1]):
         if end.corner_radius_m is not None:
             raise EditError(f"{owner}: an end vertex has no corner to round")
@@ -126,6 +139,7 @@ def _check_runway(runway: Runway) -> None:
     if not isinstance(runway.vertices, tuple) or len(runway.vertices) != 2:
         raise EditError(f"{owner} needs exactly 2 vertices (its two thresholds)")
     _check_vertices(runway.vertices, owner)
+    _check_has_length(runway.vertices, owner)
     if any(vertex.corner_radius_m is not None for vertex in runway.vertices):
         raise EditError(f"{owner}: a runway threshold has no corner to round")
     _text(runway.designation, f"{owner}: designation")
@@ -444,3 +458,87 @@ def check_layout(layout: Layout) -> None:
         seen.add(element.id)
         _check_element(element)
     set_fleet(layout, layout.fleet)
+    _check_underlays(layout.underlays)
+
+
+# --- underlays (app.model.underlays) -----------------------------------------------------------
+
+def _check_underlays(underlays: tuple[Underlay, ...]) -> None:
+    ids = [getattr(underlay, "id", None) for underlay in underlays]
+    for underlay in underlays:
+        problem = underlay_problem(underlay)
+        if problem is not None:
+            raise EditError(problem)
+        if ids.count(underlay.id) > 1:
+            raise EditError(f"the underlay id {underlay.id!r} is used twice")
+
+
+def _require_underlay(layout: Layout, underlay_id: str) -> Underlay:
+    underlay = underlay_by_id(layout, underlay_id)
+    if underlay is None:
+        raise EditError(f"the layout has no underlay with id {underlay_id!r}")
+    return underlay
+
+
+def add_underlay(layout: Layout, underlay: Underlay) -> Layout:
+    """Add ``underlay`` on top of the others."""
+    underlays = (*layout.underlays, underlay)
+    _check_underlays(underlays)
+    return replace(layout, underlays=underlays)
+
+
+def update_underlay(layout: Layout, underlay_id: str, **fields: Any) -> Layout:
+    """Change ``name``, ``visible``, ``locked``, ``opacity``, ``hidden_layers``, ``path`` or
+    ``placement``. A locked underlay keeps its placement unless the same call unlocks it; its
+    file may be relinked (a moved file is the same underlay)."""
+    allowed = frozenset({"name", "visible", "locked", "opacity", "hidden_layers", "path", "placement"})
+    unknown = sorted(set(fields) - allowed)
+    if unknown:
+        raise EditError(f"an underlay has no editable field {', '.join(unknown)} "
+                        f"(editable: {', '.join(sorted(allowed))})")
+    old = _require_underlay(layout, underlay_id)
+    new = replace(old, **fields)
+    if new.locked and new.placement != old.placement:
+        raise EditError(f"underlay {old.name!r} is locked: unlock it to change its placement")
+    _check_underlays((new,))
+    return replace(layout, underlays=tuple(new if u.id == underlay_id else u for u in layout.underlays))
+
+
+def remove_underlay(layout: Layout, underlay_id: str) -> Layout:
+    """``layout`` without the underlay (the file itself is not touched); refused while locked."""
+    underlay = _require_underlay(layout, underlay_id)
+    if underlay.locked:
+        raise EditError(f"underlay {underlay.name!r} is locked: unlock it before removing it")
+    return replace(layout, underlays=tuple(u for u in layout.underlays if u.id != underlay_id))
+
+
+def move_underlay(layout: Layout, underlay_id: str, index: int) -> Layout:
+    """Put the underlay at position ``index`` of the drawing order (0: lowest)."""
+    underlay = _require_underlay(layout, underlay_id)
+    count = len(layout.underlays)
+    if isinstance(index, bool) or not isinstance(index, int) or not 0 <= index < count:
+        raise EditError(f"underlay position {index!r} is out of range (valid: 0 to {count - 1})")
+    others = [u for u in layout.underlays if u.id != underlay_id]
+    others.insert(index, underlay)
+    return replace(layout, underlays=tuple(others))
+
+
+def add_pavements_from_outlines(layout: Layout, outlines: Iterable[Any],
+                                name: str = "Existing pavement") -> Layout:
+    """Turn closed outlines (picked from a base drawing, in metres) into existing pavement: a
+    ring inside another becomes its hole (:func:`app.model.underlays.pavement_parts`)."""
+    parts, _skipped = pavement_parts(outlines)
+    if not parts:
+        raise EditError("none of the outlines encloses an area: pick closed outlines that do not "
+                        "cross themselves")
+    return add_pavement_parts(layout, parts, name)
+
+
+def add_pavement_parts(layout: Layout, parts: Iterable[PavementPart], name: str) -> Layout:
+    """One ``ExistingPavement`` per part, with new ids; numbered names when there are several."""
+    parts = tuple(parts)
+    for number, part in enumerate(parts, start=1):
+        label = f"{_text(name, 'name')} {number}" if len(parts) > 1 else name
+        pavement = ExistingPavement(new_id(layout, PAVEMENT_PREFIX), label, part.outline, part.holes)
+        layout = add_existing_pavement(layout, pavement)
+    return layout

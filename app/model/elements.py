@@ -10,10 +10,13 @@ from __future__ import annotations
 
 from collections.abc import Iterator
 from dataclasses import dataclass, field, replace
-from typing import Literal, TypeAlias
+from typing import TYPE_CHECKING, Literal, TypeAlias
 
 from geometry.aircraft import DesignAircraft
 from geometry.units import LengthUnit
+
+if TYPE_CHECKING:  # app.model.underlays imports this module
+    from app.model.underlays import Underlay
 
 RuleSetName = Literal["FAA", "ICAO"]
 CenterlineKind = Literal["taxiway", "taxilane"]
@@ -119,6 +122,8 @@ class Layout:
     excluded_movements: frozenset[str] = frozenset()
     # (corner key, radius) pairs sorted by key, so equal settings compare equal.
     turn_radius_overrides_m: tuple[tuple[str, float], ...] = ()
+    # Base drawings and images under the layout, first drawn lowest (app.model.underlays).
+    underlays: tuple[Underlay, ...] = ()
 
     def turn_radius_override_m(self, corner_key: str) -> float | None:
         """The planner's turn radius for ``corner_key``, or None when the rule set decides."""

@@ -5,6 +5,7 @@ All geometry in metres. Polygons are shapely geometries; tracks are (n, 2) numpy
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -41,6 +42,9 @@ class AircraftTracks:
     edge_margin_m: FloatArray        # distance from the outer tyre edges to the pavement edge, per station
     max_steering_deg: float
     min_edge_margin_m: float
+    max_steering_xy: tuple[float, float] = (math.nan, math.nan)    # cockpit position at the peak
+    min_edge_margin_xy: tuple[float, float] = (math.nan, math.nan)  # tyre edge point of the least margin
+    required_edge_margin_m: float = 0.0                               # TESM or ICAO clearance
 
 
 @dataclass(frozen=True, slots=True, eq=False)
@@ -99,4 +103,3 @@ class LayoutResult:
     findings: tuple[Finding, ...]
     centerline_polylines: dict[str, FloatArray] = field(default_factory=dict)  # flattened, for drawing
     shoulders: BaseGeometry | None = None                    # paved shoulders, when the rule set has them
-    clearance_zones: dict[str, BaseGeometry] = field(default_factory=dict)  # object-free areas, by id

@@ -1,0 +1,206 @@
+"""From a Layout to a LayoutResult, cached by inputs so that a drag recomputes only what it touches.
+
+``LayoutAnalyzer.analyze(layout)`` keeps, between calls: the exact segments of each line (by its
+vertices), the junction network (updated incrementally), each line's straight pavement (by its
+segments and width) and each junction's result (by the junction, the design context, its lines'
+widths, its exclusions and radius overrides). Everything it returns is in metres.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+import shapely
+from shapely.geometry import Polygon
+from shapely.geometry.base import BaseGeometry
+
+from app.model.check_inputs import build_check_inputs
+from app.model.design_context import DesignContext, context_for, default_radius_m, line_width_m, rules_problem
+from app.model.elements import Centerline, Layout, Runway
+from app.model.junction_analysis import LEAD_IN_IN_CMG, LEAD_OUT_IN_CMG, JunctionInputs, analyze_junction
+from app.model.results import JunctionResult, LayoutResult
+from geometry.centerline import centerline_segments, flatten
+from geometry.checks import run_checks
+from geometry.errors import GeometryError
+from geometry.findings import Finding, Severity
+from geometry.movements import junction_movements
+from geometry.network import Junction, JunctionNetwork, NetworkLine, build_network, update_network
+from geometry.pavement import straight_pavement
+from geometry.primitives import Segment
+
+DRAWING_CHORD_TOLERANCE_M = 0.01
+
+
+@dataclass(frozen=True, slots=True)
+class LineGeometry:
+    """A line's exact segments, or the problem that forced its corners to be drawn sharp."""
+
+    segments: tuple[Segment, ...]
+    problem: str | None
+
+
+def _line_geometry(points: tuple[tuple[float, float], ...], radii: tuple[float | None, ...]) -> LineGeometry:
+    try:
+        return LineGeometry(centerline_segments(points, radii), None)
+    except GeometryError as error:
+        return LineGeometry(centerline_segments(points, [None] * len(points)), str(error))
+
+
+def _finding(code: str, message: str, ids: tuple[str, ...], where: tuple[float, float], rule: str) -> Finding:
+    return Finding(code, Severity.ERROR, message, ids, where, rule, "taxiwright geometry (identity)")
+
+
+class LayoutAnalyzer:
+    """Derived results of successive layouts, reusing whatever did not change."""
+
+    def __init__(self) -> None:
+        self._geometry: dict[tuple[object, ...], LineGeometry] = {}
+        self._straights: dict[tuple[object, ...], BaseGeometry] = {}
+        self._polylines: dict[tuple[object, ...], np.ndarray] = {}
+        self._junctions: dict[tuple[object, ...], tuple[JunctionResult, tuple[str, ...]]] = {}
+        self._network: JunctionNetwork | None = None
+        self.last_recomputed_junctions = 0
+
+    # -- lines -----------------------------------------------------------------------------
+    def _geometry_of(self, element: Centerline | Runway) -> LineGeometry:
+        points = tuple(vertex.xy for vertex in element.vertices)
+        radii = tuple(vertex.corner_radius_m for vertex in element.vertices)
+        key = (points, radii)
+        found = self._geometry.get(key)
+        if found is None:
+            found = self._geometry[key] = _line_geometry(points, radii)
+        return found
+
+    def _straight_of(self, segments: tuple[Segment, ...], width_m: float) -> BaseGeometry:
+        key = (segments, width_m)
+        found = self._straights.get(key)
+        if found is None:
+            found = self._straights[key] = straight_pavement(segments, width_m)
+        return found
+
+    def _polyline_of(self, segments: tuple[Segment, ...]) -> np.ndarray:
+        found = self._polylines.get(segments)  # type: ignore[call-overload]
+        if found is None:
+            found = self._polylines[segments] = flatten(segments, DRAWING_CHORD_TOLERANCE_M)  # type: ignore[index]
+        return found
+
+    def _prune(self, limit: int = 20000) -> None:
+        for cache in (self._geometry, self._straights, self._polylines, self._junctions):
+            if len(cache) > limit:
+                cache.clear()
+
+    # -- the whole layout ------------------------------------------------------------------
+    def analyze(self, layout: Layout) -> LayoutResult:
+        self._prune()
+        context = context_for(layout)
+        problem = rules_problem(context)
+        findings: list[Finding] = []
+        lines, widths, geometries = [], {}, {}
+        for element in (*layout.centerlines, *layout.runways):
+            geometry = self._geometry_of(element)
+            geometries[element.id] = geometry
+            kind = element.kind if isinstance(element, Centerline) else "runway"
+            lines.append(NetworkLine(element.id, kind, geometry.segments))
+            if geometry.problem:
+                findings.append(_finding("E-CORNER-FIT", geometry.problem, (element.id,),
+                                         element.vertices[0].xy, "corner radius fits the centerline"))
+        if problem is not None:
+            return self._without_rules(layout, geometries, problem, findings)
+        for centerline in layout.centerlines:
+            widths[centerline.id] = line_width_m(centerline, context)
+        for runway in layout.runways:
+            widths[runway.id] = runway.width_m
+        network = (build_network(lines) if self._network is None
+                   else update_network(self._network, lines))
+        self._network = network
+        straights = {line.id: self._straight_of(line.segments, widths[line.id]) for line in lines}
+        junctions, problems = self._junction_results(layout, network, context, widths, straights)
+        for junction_id, texts in problems.items():
+            point = junctions[junction_id].point_m
+            findings.extend(Finding("W-FILLET-FORM", Severity.WARNING,
+                                    f"No fillet of the usual form (radius and straight tapers) fits here, so "
+                                    f"the exact required pavement is shown as the pavement to build: {text}",
+                                    (junction_id,), point, "buildable fillet", "docs/pavement.md")
+                            for text in texts)
+        return self._assemble(layout, context, network, geometries, widths, straights, junctions, findings)
+
+    def _junction_results(self, layout: Layout, network: JunctionNetwork, context: DesignContext,
+                          widths: dict[str, float], straights: dict[str, BaseGeometry]
+                          ) -> tuple[dict[str, JunctionResult], dict[str, tuple[str, ...]]]:
+        results: dict[str, JunctionResult] = {}
+        problems: dict[str, tuple[str, ...]] = {}
+        recomputed = 0
+        overrides = dict(layout.turn_radius_overrides_m)
+        for junction in network.junctions:
+            prefix = junction.id + "|"
+            excluded = frozenset(k for k in layout.excluded_movements if k.startswith(prefix))
+            own_overrides = tuple(sorted((k, v) for k, v in overrides.items() if k.startswith(prefix)))
+            own_widths = tuple((line_id, widths[line_id]) for line_id in junction.line_ids)
+            key = (_junction_key(junction, context, dict(own_overrides)), context, own_widths, excluded, own_overrides)
+            found = self._junctions.get(key)
+            if found is None:
+                straight = shapely.union_all([straights[line_id] for line_id in junction.line_ids])
+                found = analyze_junction(JunctionInputs(junction, context, own_widths, straight, excluded,
+                                                        own_overrides))
+                self._junctions[key] = found
+                recomputed += 1
+            results[junction.id], problems[junction.id] = found
+        self.last_recomputed_junctions = recomputed
+        return results, {k: v for k, v in problems.items() if v}
+
+    def _assemble(self, layout: Layout, context: DesignContext, network: JunctionNetwork,
+                  geometries: dict[str, LineGeometry], widths: dict[str, float],
+                  straights: dict[str, BaseGeometry], junctions: dict[str, JunctionResult],
+                  findings: list[Finding]) -> LayoutResult:
+        straight = shapely.union_all(list(straights.values())) if straights else Polygon()
+        extra = [piece for result in junctions.values() for piece in
+                 (*(fillet.outline for fillet in result.fillets), result.buildable_area)]
+        total = shapely.union_all([straight, *extra]) if extra else straight
+        existing = [Polygon(p.outline, p.holes) for p in layout.existing_pavements]
+        new = total.difference(shapely.union_all(existing)) if existing else total
+        inputs = build_check_inputs(layout, context, network, widths, junctions, total)
+        findings.extend(run_checks(inputs))
+        polylines = {line_id: self._polyline_of(g.segments) for line_id, g in geometries.items()}
+        return LayoutResult(junctions, straight, total, new, float(total.area), float(new.area),
+                            tuple(sorted(findings, key=_finding_order)), polylines)
+
+    def _without_rules(self, layout: Layout, geometries: dict[str, LineGeometry], problem: str,
+                       findings: list[Finding]) -> LayoutResult:
+        findings.append(Finding("E-RULES", Severity.ERROR, problem, (), (0.0, 0.0),
+                                f"{layout.rule_set} rule set", "geometry/rulesets.py"))
+        polylines = {line_id: self._polyline_of(g.segments) for line_id, g in geometries.items()}
+        empty = Polygon()
+        return LayoutResult({}, empty, empty, empty, 0.0, 0.0, tuple(findings), polylines)
+
+
+def _relevant_length_m(junction: Junction, context: DesignContext, overrides: dict[str, float]) -> float:
+    """Leg lengths beyond this do not change the junction's result: every turn's tangent length plus
+    the longest lead the movements use (junction_analysis caps leads at a few CMG)."""
+    tangent_m = 0.0
+    for movement in junction_movements(junction):
+        if movement.kind == "turn":
+            radius_m = max([default_radius_m(movement.turn_rad, context), *overrides.values()])
+            tangent_m = max(tangent_m, radius_m * math.tan(abs(movement.turn_rad) / 2.0))
+    cmg_m = max(aircraft.cmg_m for aircraft in context.fleet)
+    return tangent_m + max(LEAD_IN_IN_CMG, LEAD_OUT_IN_CMG) * cmg_m + 1.0
+
+
+def _junction_key(junction: Junction, context: DesignContext, overrides: dict[str, float]) -> tuple[object, ...]:
+    """What of a junction its result depends on: not the stations along its lines, and leg lengths
+    only up to what its movements use, so that moving a distant vertex does not recompute it."""
+    cap_m = _relevant_length_m(junction, context, overrides)
+    legs = tuple((leg.id, leg.line_id, leg.line_kind, leg.heading_rad, min(leg.length_m, cap_m),
+                  min(leg.straight_length_m, cap_m), leg.direction) for leg in junction.legs)
+    return (junction.id, junction.point, junction.kind, legs)
+
+
+def _finding_order(finding: Finding) -> tuple[int, str, float, float]:
+    x, y = finding.location_m
+    return (-int(finding.severity), finding.code, x if math.isfinite(x) else 0.0, y if math.isfinite(y) else 0.0)
+
+
+def analyze(layout: Layout) -> LayoutResult:
+    """A one-off analysis (no cache kept between calls)."""
+    return LayoutAnalyzer().analyze(layout)

@@ -1,0 +1,214 @@
+"""The plan view: a locked-aspect pyqtgraph view with a scale-aware grid, pan (middle button, or
+Space + drag), wheel zoom to the cursor, zoom to fit, and pointer events for the tools.
+
+Mouse and key events leave here as :class:`app.model.tools.PointerEvent` records in plan metres
+through the ``pointer`` signal; the canvas itself never edits anything.
+"""
+
+from __future__ import annotations
+
+import pyqtgraph as pg
+from PySide6 import QtCore, QtGui, QtWidgets
+
+from app.model.scene import LAYER_ORDER, Scene
+from app.model.tools import PointerEvent
+from app.ui.items.layer_graphics import LayerGraphics
+from app.ui.items.overlay import Overlay
+from app.ui.items.vertex_handles import VertexHandles
+from app.ui.style import LIGHT, Theme
+from geometry.units import METRES_PER_FOOT, LengthUnit
+
+PICK_RADIUS_PX = 8.0
+EMPTY_VIEW_HALF_SIZE_M = 500.0
+HANDLE_STYLES = frozenset({"vertex", "vertex.rounded"})
+KEY_NAMES = {QtCore.Qt.Key.Key_Return: "Enter", QtCore.Qt.Key.Key_Enter: "Enter",
+             QtCore.Qt.Key.Key_Escape: "Escape", QtCore.Qt.Key.Key_Backspace: "Backspace"}
+BUTTON_NAMES = {QtCore.Qt.MouseButton.LeftButton: "left", QtCore.Qt.MouseButton.RightButton: "right",
+                QtCore.Qt.MouseButton.MiddleButton: "middle"}
+
+
+class PlanViewBox(pg.ViewBox):
+    """Left button: tools. Middle button, or left with Space held: pan. Wheel: zoom at cursor."""
+
+    def __init__(self) -> None:
+        super().__init__(lockAspect=True, enableMenu=False, invertY=False)
+        self.setMouseMode(pg.ViewBox.PanMode)
+        self.canvas: PlanCanvas | None = None
+        self._tool_drag = False
+
+    def _send(self, kind: str, pos: QtCore.QPointF, button: str,
+              modifiers: QtCore.Qt.KeyboardModifier) -> None:
+        if self.canvas is not None:
+            self.canvas.send_pointer(kind, self.mapToView(pos), button, modifiers)
+
+    def mouseClickEvent(self, ev: pg.GraphicsScene.mouseEvents.MouseClickEvent) -> None:
+        button = BUTTON_NAMES.get(ev.button())
+        if button is None or button == "middle":
+            ev.ignore()
+            return
+        ev.accept()
+        if ev.double():
+            self._send("double", ev.pos(), button, ev.modifiers())
+        else:
+            self._send("press", ev.pos(), button, ev.modifiers())
+            self._send("release", ev.pos(), button, ev.modifiers())
+
+    def mouseDragEvent(self, ev: pg.GraphicsScene.mouseEvents.MouseDragEvent,
+                       axis: int | None = None) -> None:
+        panning = ev.button() == QtCore.Qt.MouseButton.MiddleButton or (
+            ev.button() == QtCore.Qt.MouseButton.LeftButton and self.canvas is not None
+            and self.canvas.space_held and not self._tool_drag)
+        if panning:
+            super().mouseDragEvent(ev, axis)
+            return
+        ev.accept()
+        if ev.button() != QtCore.Qt.MouseButton.LeftButton:
+            return
+        if ev.isStart():
+            self._tool_drag = True
+            self._send("press", ev.buttonDownPos(), "left", ev.modifiers())
+        if self._tool_drag:
+            self._send("move", ev.pos(), "left", ev.modifiers())
+        if ev.isFinish() and self._tool_drag:
+            self._tool_drag = False
+            self._send("release", ev.pos(), "left", ev.modifiers())
+
+    def hoverEvent(self, ev: pg.GraphicsScene.mouseEvents.HoverEvent) -> None:
+        if ev.isExit() or self._tool_drag or ev.buttons() != QtCore.Qt.MouseButton.NoButton:
+            return
+        self._send("move", ev.pos(), "none", ev.modifiers())
+
+
+class PlanCanvas(pg.PlotWidget):
+    pointer = QtCore.Signal(object)            # PointerEvent
+    cursor_moved = QtCore.Signal(float, float)  # plan metres
+
+    def __init__(self, parent: QtWidgets.QWidget | None = None, theme: Theme = LIGHT) -> None:
+        view_box = PlanViewBox()
+        super().__init__(parent, viewBox=view_box)
+        view_box.canvas = self
+        self.view_box = view_box
+        self.theme = theme
+        self.space_held = False
+        self.drag_enabled = True  # whether a drag on a vertex goes to the tool (select/move tools)
+        self.setFocusPolicy(QtCore.Qt.FocusPolicy.StrongFocus)
+        self.plotItem.hideButtons()
+        for axis in ("bottom", "left"):
+            self.plotItem.getAxis(axis).enableAutoSIPrefix(False)
+        self.layers = {name: LayerGraphics(view_box, name, 10.0 * index, theme,
+                                           HANDLE_STYLES if name == "centerlines" else frozenset())
+                       for index, name in enumerate(LAYER_ORDER)}
+        self.handles = VertexHandles(self._handle_drag, lambda: self.drag_enabled and not self.space_held)
+        self.handles.setZValue(10.0 * LAYER_ORDER.index("centerlines") + 5.0)
+        view_box.addItem(self.handles, ignoreBounds=True)
+        self.overlay = Overlay(view_box, theme)
+        self._shown: Scene | None = None
+        self.scene().sigMouseMoved.connect(self._report_cursor)
+        self.set_units("ft")
+        self.set_theme(theme)
+        self.zoom_to_fit(None)
+
+    # --- events ----------------------------------------------------------------------------------
+
+    def send_pointer(self, kind: str, view_pos: QtCore.QPointF, button: str,
+                     modifiers: QtCore.Qt.KeyboardModifier) -> None:
+        self.pointer.emit(PointerEvent(
+            kind, float(view_pos.x()), float(view_pos.y()), button,  # type: ignore[arg-type]
+            shift=bool(modifiers & QtCore.Qt.KeyboardModifier.ShiftModifier),
+            alt=bool(modifiers & QtCore.Qt.KeyboardModifier.AltModifier)))
+
+    def _handle_drag(self, kind: str, pos: QtCore.QPointF, modifiers: QtCore.Qt.KeyboardModifier) -> None:
+        self.send_pointer(kind, pos, "left", modifiers)
+
+    def keyPressEvent(self, ev: QtGui.QKeyEvent) -> None:
+        if ev.key() == QtCore.Qt.Key.Key_Space and not ev.isAutoRepeat():
+            self.space_held = True
+            self.viewport().setCursor(QtCore.Qt.CursorShape.OpenHandCursor)
+            return
+        name = KEY_NAMES.get(QtCore.Qt.Key(ev.key()))
+        if name is not None:
+            self.pointer.emit(PointerEvent("key", key=name))
+            return
+        super().keyPressEvent(ev)
+
+    def keyReleaseEvent(self, ev: QtGui.QKeyEvent) -> None:
+        if ev.key() == QtCore.Qt.Key.Key_Space and not ev.isAutoRepeat():
+            self.space_held = False
+            self.viewport().unsetCursor()
+            return
+        super().keyReleaseEvent(ev)
+
+    def mousePressEvent(self, ev: QtGui.QMouseEvent) -> None:
+        self.setFocus(QtCore.Qt.FocusReason.MouseFocusReason)
+        super().mousePressEvent(ev)
+
+    def _report_cursor(self, scene_pos: QtCore.QPointF) -> None:
+        point = self.view_box.mapSceneToView(scene_pos)
+        self.cursor_moved.emit(float(point.x()), float(point.y()))
+
+    # --- content ---------------------------------------------------------------------------------
+
+    def show_scene(self, scene: Scene) -> list[str]:
+        """Redraw the layers that differ from those shown; returns their names."""
+        redrawn = []
+        for name in LAYER_ORDER:
+            layer = scene.layers[name]
+            if self._shown is None or self._shown.layers[name] is not layer:
+                self.layers[name].set_data(layer)
+                redrawn.append(name)
+        if "centerlines" in redrawn:
+            centerlines = scene.layers["centerlines"]
+            self.handles.set_points([p for p in centerlines.points if p.style in HANDLE_STYLES], self.theme)
+        self._shown = scene
+        return redrawn
+
+    def set_layer_visible(self, name: str, visible: bool) -> None:
+        self.layers[name].set_visible(visible)
+        if name == "centerlines":
+            self.handles.setVisible(visible)
+
+    def set_theme(self, theme: Theme) -> None:
+        self.theme = theme
+        self.setBackground(theme.background)
+        for axis in ("bottom", "left"):
+            item = self.plotItem.getAxis(axis)
+            item.setPen(pg.mkPen(theme.foreground))
+            item.setTextPen(pg.mkPen(theme.foreground))
+        self.plotItem.showGrid(x=True, y=True, alpha=theme.grid_alpha)
+        for layer in self.layers.values():
+            layer.set_theme(theme)
+        if self._shown is not None:
+            centerlines = self._shown.layers["centerlines"]
+            self.handles.set_points([p for p in centerlines.points if p.style in HANDLE_STYLES], theme)
+        self.overlay.set_theme(theme)
+
+    def set_units(self, units: LengthUnit) -> None:
+        """Axis labels and tick values in the display units; the view stays in metres."""
+        scale = 1.0 / METRES_PER_FOOT if units == "ft" else 1.0
+        for axis, label in (("bottom", "East"), ("left", "North")):
+            item = self.plotItem.getAxis(axis)
+            item.setScale(scale)
+            item.setLabel(f"{label} ({units})")
+
+    # --- view range ------------------------------------------------------------------------------
+
+    def pick_radius_m(self) -> float:
+        size = self.view_box.viewPixelSize()
+        return PICK_RADIUS_PX * max(abs(size[0]), abs(size[1]))
+
+    def zoom_to_fit(self, bounds: tuple[float, float, float, float] | None) -> None:
+        if bounds is None:
+            half = EMPTY_VIEW_HALF_SIZE_M
+            bounds = (-half, -half, half, half)
+        xmin, ymin, xmax, ymax = bounds
+        margin = max(xmax - xmin, ymax - ymin, 50.0) * 0.08
+        self.view_box.setRange(QtCore.QRectF(xmin - margin, ymin - margin, xmax - xmin + 2 * margin,
+                                             ymax - ymin + 2 * margin), padding=0.0)
+
+    def zoom_to(self, x_m: float, y_m: float, span_m: float) -> None:
+        self.view_box.setRange(QtCore.QRectF(x_m - span_m / 2, y_m - span_m / 2, span_m, span_m),
+                               padding=0.0)
+
+    def visible_rect_m(self) -> QtCore.QRectF:
+        (xmin, xmax), (ymin, ymax) = self.view_box.viewRange()
+        return QtCore.QRectF(xmin, ymin, xmax - xmin, ymax - ymin)

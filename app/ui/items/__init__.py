@@ -1,0 +1,1 @@
+"""Graphics items of the plan view: one group per scene layer, vertex handles, overlays."""

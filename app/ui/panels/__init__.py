@@ -1,0 +1,1 @@
+"""Dock panels of the main window: layers, junction inspector, findings, properties, fleet."""

@@ -1,0 +1,250 @@
+"""Wingtip clearance along the swept wingtip tracks of every movement.
+
+* E-WINGTIP-OBJECT: a wingtip track passes closer to an object than the wingtip clearance of the
+  moving aircraft (taxilane clearance when the movement joins two taxilanes, else taxiway).
+* E-WINGTIP-TAXIWAY: a wingtip track passes closer to the centerline of another taxiway or
+  taxilane than half the span of that line's design aircraft plus the wingtip clearance (of the
+  more demanding of the two aircraft): an aircraft standing on that centerline would be struck.
+  The movement's own lines and every line meeting its junction are left out. Where another line
+  meets one of the movement's lines at a different junction, its centerline is left out within
+  ``(body reach + required distance) / sin(angle)`` of that junction: crossing there is a matter
+  for the junction, not a clearance along the track. The body reach, the distance from the
+  cockpit to a wingtip, bounds how far any wingtip can be from the centerline the cockpit
+  follows, so beyond that stretch no wingtip on the movement's line comes within the required
+  distance of the other centerline merely because the lines meet.
+"""
+
+from __future__ import annotations
+
+import math
+from collections import defaultdict
+from dataclasses import dataclass, field
+
+import shapely
+from shapely.geometry.base import BaseGeometry
+
+from geometry.aircraft import DesignAircraft
+from geometry.centerline import wrap_angle
+from geometry.checks.common import (
+    LENGTH_TOLERANCE_M,
+    CheckContext,
+    length_text,
+    line_label,
+    movement_ids,
+    movement_label,
+    nearest_midpoint,
+    usable_objects,
+)
+from geometry.checks.inputs import LineInfo, MovementInfo, ObjectInfo, TrackInfo
+from geometry.checks.wingtip_tracks import WingtipTrack, movement_wingtips, track_box
+from geometry.errors import GeometryError
+from geometry.findings import Finding, Severity
+from geometry.network import Junction
+from geometry.rulesets import WingtipKind
+from geometry.standards import RuleValue
+
+SHALLOWEST_CROSSING_RAD = math.radians(10.0)  # below this, a crossing is treated as 10 degrees
+
+
+def wingtip_kind(context: CheckContext, line_ids: tuple[str, ...]) -> WingtipKind:
+    """Taxilane clearance only where every line involved is a taxilane."""
+    kinds = {context.lines[line_id].line.kind for line_id in line_ids if line_id in context.lines}
+    return "taxilane" if kinds == {"taxilane"} else "taxiway"
+
+
+def _clearance(context: CheckContext, kind: WingtipKind, aircraft: DesignAircraft,
+               ids: tuple[str, ...], location: tuple[float, float]) -> RuleValue | None:
+    return context.rule(f"{kind} wingtip clearance",
+                        lambda: context.inputs.rule_set.wingtip_clearance(kind, aircraft), ids, location)
+
+
+def _closest_tip(tips: list[WingtipTrack], other: BaseGeometry) -> tuple[WingtipTrack, float]:
+    distances = [(tip, float(shapely.distance(tip.geometry, other))) for tip in tips]
+    return min(distances, key=lambda pair: pair[1])
+
+
+def _near(tree: shapely.STRtree, tips: list[WingtipTrack], distance_m: float) -> list[int]:
+    """Indices of the tree's geometries within ``distance_m`` of either wingtip track."""
+    _, found = tree.query([tip.geometry for tip in tips], predicate="dwithin", distance=distance_m)
+    return sorted(set(found.tolist()))
+
+
+def check_wingtip_objects(context: CheckContext) -> list[Finding]:
+    """E-WINGTIP-OBJECT."""
+    objects = usable_objects(context.inputs.objects)
+    if not objects:
+        return []
+    tree = shapely.STRtree([item.geometry for item in objects])
+    findings = []
+    for movement in context.offered_movements():
+        kind = wingtip_kind(context, movement.line_ids)
+        for track in movement.tracks:
+            rule = _clearance(context, kind, track.aircraft, movement_ids(movement), movement.location_m)
+            box = None if rule is None else track_box(track, rule.value_m)
+            if rule is None or box is None or not len(tree.query(box)):
+                continue
+            tips = movement_wingtips(context, movement, track)
+            for index in _near(tree, tips, rule.value_m) if tips else []:
+                tip, distance_m = _closest_tip(tips, objects[index].geometry)
+                if distance_m < rule.value_m - LENGTH_TOLERANCE_M:
+                    findings.append(_object_finding(context, movement, track, tip, distance_m,
+                                                    objects[index], rule, kind))
+    return findings
+
+
+def _object_finding(context: CheckContext, movement: MovementInfo, track: TrackInfo, tip: WingtipTrack,
+                    distance_m: float, item: ObjectInfo, rule: RuleValue, kind: WingtipKind) -> Finding:
+    group = context.group_label(track.aircraft)
+    label = f"{kind} wingtip clearance, {group}"
+    message = (f"In {movement_label(context, movement)}, the {tip.side} wingtip of "
+               f"{track.aircraft.name} passes {length_text(distance_m)} from object "
+               f"{item.name or item.id}; the {kind} wingtip clearance for {group} is "
+               f"{length_text(rule.value_m)}. Move the object "
+               f"or change the turn.")
+    return Finding("E-WINGTIP-OBJECT", Severity.ERROR, message, (*movement_ids(movement), item.id),
+                   nearest_midpoint(tip.geometry, item.geometry), label, rule.describe())
+
+
+def _junctions_by_line(junctions: tuple[Junction, ...]) -> dict[str, list[Junction]]:
+    found: dict[str, list[Junction]] = defaultdict(list)
+    for junction in junctions:
+        for line_id in junction.line_ids:
+            found[line_id].append(junction)
+    return found
+
+
+def _crossing_angle_rad(junction: Junction, line_a: str, line_b: str) -> float:
+    """Smallest acute angle between the legs of two lines at a junction."""
+    angles = [min(abs(wrap_angle(a.heading_rad - b.heading_rad)),
+                  math.pi - abs(wrap_angle(a.heading_rad - b.heading_rad)))
+              for a in junction.legs if a.line_id == line_a for b in junction.legs if b.line_id == line_b]
+    return min(angles, default=math.pi / 2.0)
+
+
+@dataclass(frozen=True, slots=True)
+class _Requirement:
+    kind: WingtipKind
+    aircraft: DesignAircraft     # the more demanding of the two, whose clearance applies
+    clearance: RuleValue
+    half_span_m: float           # of the other line's design aircraft
+
+    @property
+    def required_m(self) -> float:
+        return self.half_span_m + self.clearance.value_m
+
+
+@dataclass(slots=True)
+class _TaxiwayClearances:
+    """Look-ups shared by every movement of one run: rules per aircraft pair, and each other
+    line's centerline less the stretches near its junctions with a movement's lines."""
+
+    context: CheckContext
+    by_line: dict[str, list[Junction]]
+    _requirements: dict[tuple[DesignAircraft, str, WingtipKind], _Requirement | None] = field(
+        default_factory=dict)
+    _clipped: dict[tuple[str, frozenset[str], float], BaseGeometry] = field(default_factory=dict)
+
+    def requirement(self, movement: MovementInfo, track: TrackInfo, other: LineInfo) -> _Requirement | None:
+        kind = wingtip_kind(self.context, (*movement.line_ids, other.line.id))
+        key = (track.aircraft, other.line.id, kind)
+        if key not in self._requirements:
+            self._requirements[key] = self._look_up(movement, track, other, kind)
+        return self._requirements[key]
+
+    def _look_up(self, movement: MovementInfo, track: TrackInfo, other: LineInfo,
+                 kind: WingtipKind) -> _Requirement | None:
+        ids = (*movement_ids(movement), other.line.id)
+        aircraft = self.context.governing((track.aircraft, other.design_aircraft), "wingtip clearance",
+                                          ids, movement.location_m)
+        if aircraft is None:
+            return None
+        rule = _clearance(self.context, kind, aircraft, ids, movement.location_m)
+        if rule is None:
+            return None
+        return _Requirement(kind, aircraft, rule, other.design_aircraft.wingspan_m / 2.0)
+
+    def clipped(self, other_id: str, movement: MovementInfo, reach_m: float) -> BaseGeometry:
+        """The other line's centerline without its stretches within ``reach_m / sin(angle)`` of a
+        junction with one of the movement's lines."""
+        key = (other_id, frozenset(movement.line_ids), round(reach_m, 3))
+        if key not in self._clipped:
+            discs = []
+            for junction in self.by_line.get(other_id, []):
+                for line_id in sorted(set(movement.line_ids) & set(junction.line_ids)):
+                    angle = max(_crossing_angle_rad(junction, other_id, line_id), SHALLOWEST_CROSSING_RAD)
+                    discs.append(shapely.buffer(shapely.points(junction.point), reach_m / math.sin(angle)))
+            centerline = self.context.geometry(other_id)
+            if discs:
+                centerline = shapely.difference(centerline, shapely.union_all(discs))
+            self._clipped[key] = centerline
+        return self._clipped[key]
+
+
+def body_reach_m(aircraft: DesignAircraft) -> float:
+    """Distance from the cockpit to a wingtip (identity of the body frame)."""
+    return math.hypot(aircraft.wingspan_m / 2.0, aircraft.cmg_m - aircraft.wingtip_x_m)
+
+
+def _query_reach_m(context: CheckContext, others: list[LineInfo]) -> float:
+    """An upper bound of every required tip-to-centerline distance: the largest half span plus
+    the largest taxiway wingtip clearance (taxilane clearances are smaller)."""
+    aircraft = {info.design_aircraft for info in others}
+    aircraft.update(track.aircraft for movement in context.inputs.movements for track in movement.tracks)
+    clearances = [0.0]
+    for member in aircraft:
+        try:
+            clearances.append(context.inputs.rule_set.wingtip_clearance("taxiway", member).value_m)
+        except GeometryError:
+            continue
+    return max(info.design_aircraft.wingspan_m for info in others) / 2.0 + max(clearances) + 1.0
+
+
+def check_wingtip_taxiways(context: CheckContext) -> list[Finding]:
+    """E-WINGTIP-TAXIWAY."""
+    others = [info for info in context.inputs.lines if info.line.kind != "runway"]
+    movements = context.offered_movements()
+    if not others or not movements:
+        return []
+    tree = shapely.STRtree([context.geometry(info.line.id) for info in others])
+    reach_m = _query_reach_m(context, others)
+    clearances = _TaxiwayClearances(context, _junctions_by_line(context.inputs.junctions))
+    findings = []
+    for movement in movements:
+        junction = context.junctions.get(movement.junction_id)
+        left_out = set(movement.line_ids) | set(junction.line_ids if junction is not None else ())
+        for track in movement.tracks:
+            box = track_box(track, reach_m)
+            if box is None or all(others[index].line.id in left_out for index in tree.query(box).tolist()):
+                continue
+            tips = movement_wingtips(context, movement, track)
+            for index in _near(tree, tips, reach_m) if tips else []:
+                if others[index].line.id not in left_out:
+                    finding = _taxiway_finding(clearances, movement, track, tips, others[index])
+                    if finding is not None:
+                        findings.append(finding)
+    return findings
+
+
+def _taxiway_finding(clearances: _TaxiwayClearances, movement: MovementInfo, track: TrackInfo,
+                     tips: list[WingtipTrack], other: LineInfo) -> Finding | None:
+    need = clearances.requirement(movement, track, other)
+    if need is None:
+        return None
+    clipped = clearances.clipped(other.line.id, movement, body_reach_m(track.aircraft) + need.required_m)
+    if clipped.is_empty:
+        return None
+    tip, distance_m = _closest_tip(tips, clipped)
+    if not math.isfinite(distance_m) or distance_m >= need.required_m - LENGTH_TOLERANCE_M:
+        return None
+    context = clearances.context
+    group = context.group_label(need.aircraft)
+    message = (f"In {movement_label(context, movement)}, the {tip.side} wingtip of {track.aircraft.name} "
+               f"passes {length_text(distance_m)} from the centerline of {line_label(other)}; an "
+               f"aircraft there ({other.design_aircraft.name}) needs half its span, "
+               f"{length_text(need.half_span_m)}, plus the {need.kind} wingtip clearance for {group}, "
+               f"{length_text(need.clearance.value_m)}: {length_text(need.required_m)}. Move the lines "
+               f"apart or change the turn.")
+    return Finding("E-WINGTIP-TAXIWAY", Severity.ERROR, message, (*movement_ids(movement), other.line.id),
+                   nearest_midpoint(tip.geometry, clipped), f"{need.kind} wingtip clearance, {group}",
+                   f"{need.clearance.describe()}; plus half the span of {other.design_aircraft.name} "
+                   f"(identity)")

@@ -1,0 +1,117 @@
+"""Figure 4: one drag frame in the desktop program, offscreen, on the main sample layout.
+
+Run by run.py as ``python -m tests.benchmarks.bench_window SAMPLE [--frames N]``; prints one JSON
+object. The window is built as the program builds it, with a ``LayoutAnalyzer`` (kept between
+frames, as during a real drag) as its analysis. The dragged vertex is the end of a line at a tee,
+moved along the through line, so the tee stays a tee. A frame is timed from the edit
+(``move_vertex`` and ``Document.preview``) through the recompute and scene rebuild
+(``MainWindow.refresh_now``) to a synchronous repaint of the plan view.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import math
+import os
+import statistics
+import sys
+import tempfile
+from pathlib import Path
+
+from app.model.elements import Layout
+from app.model.results import LayoutResult
+from tests.benchmarks.layouts import DragTarget, drag_positions_m
+from tests.benchmarks.timing import wall_and_cpu
+
+SCREEN_SIZE = (1600, 1000)
+
+
+def _through_heading_rad(layout: Layout, line_id: str, point: tuple[float, float]) -> float | None:
+    """Heading of the piece of centerline ``line_id`` that passes nearest ``point``."""
+    for line in layout.centerlines:
+        if line.id != line_id:
+            continue
+        pieces = list(zip(line.vertices, line.vertices[1:], strict=False))
+        a, b = min(pieces, key=lambda ab: _distance_to_piece(point, ab[0].xy, ab[1].xy))
+        return math.atan2(b.y_m - a.y_m, b.x_m - a.x_m)
+    return None
+
+
+def _distance_to_piece(p: tuple[float, float], a: tuple[float, float], b: tuple[float, float]) -> float:
+    ax, ay, bx, by = *a, *b
+    length2 = (bx - ax) ** 2 + (by - ay) ** 2
+    t = max(0.0, min(1.0, ((p[0] - ax) * (bx - ax) + (p[1] - ay) * (by - ay)) / length2))
+    return math.dist(p, (ax + t * (bx - ax), ay + t * (by - ay)))
+
+
+def sample_drag_target(layout: Layout, result: LayoutResult) -> DragTarget:
+    """The end vertex of a line at the first tee (by id), dragged along the through line."""
+    for junction in sorted(result.junctions.values(), key=lambda j: j.junction_id):
+        if junction.kind != "tee":
+            continue
+        for line in layout.centerlines:
+            for index in (0, len(line.vertices) - 1):
+                vertex = line.vertices[index]
+                others = [i for i in junction.line_ids if i != line.id]
+                if math.dist(vertex.xy, junction.point_m) > 1e-6 or len(others) != 1:
+                    continue
+                heading = _through_heading_rad(layout, others[0], junction.point_m)
+                if heading is not None:
+                    return DragTarget(line.id, index, vertex.x_m, vertex.y_m, heading)
+    raise SystemExit("the sample layout has no tee junction at a line end to drag")
+
+
+def measure(sample: Path, frames: int) -> dict[str, object]:
+    from PySide6 import QtCore, QtWidgets
+
+    from app.fileio.layout_json import load_layout
+    from app.model import edits
+    from app.model.analysis import LayoutAnalyzer
+    from app.model.document import Document
+    from app.ui.launch import settle
+    from app.ui.main_window import MainWindow
+
+    app = QtWidgets.QApplication.instance() or QtWidgets.QApplication(["taxiwright-benchmark"])
+    settings_file = str(Path(tempfile.mkdtemp()) / "settings.ini")
+    settings = QtCore.QSettings(settings_file, QtCore.QSettings.Format.IniFormat)
+    document = Document(load_layout(sample), sample)
+    window = MainWindow(document, LayoutAnalyzer().analyze, settings)
+    window.resize(*SCREEN_SIZE)
+    window.show()
+    settle(window)
+    assert window.result is not None, "the sample layout could not be analysed"
+    target = sample_drag_target(document.layout, window.result)
+    start = document.layout
+    walls, cpus = [], []
+    document.begin_preview()
+    for x_m, y_m in drag_positions_m(target, frames):
+        def frame(x_m: float = x_m, y_m: float = y_m) -> None:
+            document.preview(edits.move_vertex(start, target.centerline_id, target.vertex_index, x_m, y_m))
+            window.refresh_now()
+            window.canvas.viewport().repaint()
+        wall, cpu, _ = wall_and_cpu(frame)
+        walls.append(1e3 * wall)
+        cpus.append(1e3 * cpu)
+        app.processEvents()
+    document.cancel_preview()
+    window.close()
+    return {"drag_frame_ms": walls, "drag_frame_cpu_ms": cpus,
+            "drag_frame_median_ms": statistics.median(walls),
+            "drag_frame_cpu_median_ms": statistics.median(cpus),
+            "dragged": f"{target.centerline_id} vertex {target.vertex_index}"}
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = argparse.ArgumentParser(description=__doc__)
+    parser.add_argument("sample", type=Path)
+    parser.add_argument("--frames", type=int, default=10)
+    args = parser.parse_args(argv)
+    os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
+    os.environ.setdefault("TAXIWRIGHT_STATE_DIR", tempfile.mkdtemp())  # no recovery files of ours elsewhere
+    json.dump(measure(args.sample, args.frames), sys.stdout)
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
