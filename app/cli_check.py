@@ -11,6 +11,7 @@ from app.fileio.layout_json import LayoutFileError, load_layout
 from app.model.analysis import analyze
 from app.model.elements import Layout
 from app.model.results import LayoutResult
+from geometry.errors import GeometryError
 from geometry.findings import Finding, Severity
 from geometry.units import from_metres
 
@@ -54,6 +55,10 @@ def _report(layout: Layout, result: LayoutResult) -> dict[str, Any]:
             "junctions": junctions, "findings": findings, "caution": CAUTION}
 
 
+def _count(number: int, noun: str) -> str:
+    return f"{number} {noun}" if number == 1 else f"{number} {noun}s"
+
+
 def _print_text(report: dict[str, Any]) -> None:
     units, area_units = report["units"], report["area_units"]
     print(f"{report['title']}  ({report['rule_set']} rules, lengths in {units})")
@@ -62,10 +67,11 @@ def _print_text(report: dict[str, Any]) -> None:
           f"{report['new_pavement_area']:,.0f} {area_units} new")
     for junction in report["junctions"]:
         print(f"  junction {junction['id']} ({junction['kind']}): required {junction['required_area']:,.0f}, "
-              f"buildable {junction['buildable_area']:,.0f} {area_units}, {len(junction['fillets'])} fillets")
+              f"buildable {junction['buildable_area']:,.0f} {area_units}, {_count(len(junction['fillets']), 'fillet')}")
     counts = {name: sum(1 for f in report["findings"] if f["severity"] == name)
               for name in ("error", "warning", "info")}
-    print(f"Findings: {counts['error']} errors, {counts['warning']} warnings, {counts['info']} notes")
+    print(f"Findings: {_count(counts['error'], 'error')}, {_count(counts['warning'], 'warning')}, "
+          f"{_count(counts['info'], 'note')}")
     for finding in report["findings"]:
         print(f"  [{finding['severity']:7}] {finding['code']}: {finding['message']}")
     print(report["caution"])
@@ -75,12 +81,21 @@ def _has_errors(findings: Sequence[Finding]) -> bool:
     return any(f.severity == Severity.ERROR for f in findings)
 
 
+def _analyze(layout: Layout) -> LayoutResult:
+    """The analysis; an engine error (bad input by definition, geometry/errors.py) becomes a
+    LayoutFileError so that the command still ends in one line, not a traceback."""
+    try:
+        return analyze(layout)
+    except GeometryError as error:
+        raise LayoutFileError(f"cannot analyse the layout: {error}") from error
+
+
 def check_command(path: str, *, as_json: bool) -> int:
     try:
         layout = _load(path)
+        result = _analyze(layout)
     except LayoutFileError as error:
         return _fail(str(error))
-    result = analyze(layout)
     report = _report(layout, result)
     if as_json:
         print(json.dumps(report, indent=2))
@@ -90,13 +105,16 @@ def check_command(path: str, *, as_json: bool) -> int:
 
 
 def export_command(path: str, output: str, layers: Sequence[str] | None) -> int:
+    try:
+        layout = _load(path)  # first: a bad file is reported without loading the exporter
+    except LayoutFileError as error:
+        return _fail(str(error))
     from app.fileio.dxf_export import DxfExportError, export_dxf
-    from app.fileio.dxf_layers import UnknownLayerError
+    from app.fileio.dxf_layers import UnknownLayerError, select_layers
 
     try:
-        layout = _load(path)
-        result = analyze(layout)
-        summary = export_dxf(layout, result, output, layers=layers)
+        select_layers(layers)  # an unknown layer name is reported before the analysis runs
+        summary = export_dxf(layout, _analyze(layout), output, layers=layers)
     except (LayoutFileError, DxfExportError, UnknownLayerError) as error:
         return _fail(str(error))
     print(f"Wrote {summary.path}: {summary.total_entities} entities on {len(summary.layers)} layers "

@@ -136,7 +136,9 @@ def run_open(args: argparse.Namespace) -> int:
     from app.model.analysis import LayoutAnalyzer
     from app.ui.launch import run
 
-    return run(args.layout, getattr(args, "screenshot", None), analyze=LayoutAnalyzer().analyze)
+    analyzer = LayoutAnalyzer()
+    return run(args.layout, getattr(args, "screenshot", None), analyze=analyzer.analyze,
+               analyze_live=analyzer.analyze_live)
 
 
 def run_check(args: argparse.Namespace) -> int:

@@ -82,15 +82,15 @@ def export_dxf(layout: Layout, result: LayoutResult, path: Path | str, *,
     ----------
     layers : keys of :data:`~app.fileio.dxf_layers.DXF_LAYERS` (or their DXF names) to write;
         None writes them all. A layer with nothing to draw is left out of the file.
-    include_underlays : reserved for underlay drawings; the layout model holds none yet, so it
-        changes nothing today.
+    include_underlays : also copy the visible base drawings (DXF underlays) into the file, on
+        layers of their own; by default the drafter's base drawing is not repeated.
 
     Raises
     ------
     UnknownLayerError : ``layers`` names a layer the exporter does not know (a ValueError).
     DxfExportError : the file cannot be written; the old file, if any, is untouched.
     """
-    rendered = render_dxf(layout, result, layers=layers)
+    rendered = render_dxf(layout, result, layers=layers, include_underlays=include_underlays)
     try:
         write_atomic(path, rendered.data)
     except OSError as error:
@@ -101,7 +101,7 @@ def export_dxf(layout: Layout, result: LayoutResult, path: Path | str, *,
 
 
 def render_dxf(layout: Layout, result: LayoutResult, *,
-               layers: Collection[str] | None = None) -> RenderedDxf:
+               layers: Collection[str] | None = None, include_underlays: bool = False) -> RenderedDxf:
     """The DXF file for ``layout`` and ``result`` as bytes (UTF-8, as R2018 requires)."""
     selected = select_layers(layers)
     units = layout.units
@@ -113,6 +113,10 @@ def render_dxf(layout: Layout, result: LayoutResult, *,
     for key in DXF_LAYERS:
         if drafting.sheet.wants(key):
             _WRITERS[key](drafting, layout, result)
+    if include_underlays and layout.underlays:
+        from app.fileio.underlay_dxf import add_base_drawings
+
+        drafting.warnings.extend(add_base_drawings(doc, layout.underlays, units_per_m))
     xmin, ymin, xmax, ymax = drafting.sheet.bounds() or (0.0, 0.0, 0.0, 0.0)
     # ezdxf copies the model space's extents into the header on writing: set both.
     doc.header["$EXTMIN"] = doc.modelspace().dxf.extmin = (xmin, ymin, 0.0)

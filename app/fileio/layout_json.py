@@ -147,8 +147,14 @@ def _read_bytes(path: Path) -> bytes:
     try:
         if not stat.S_ISREG(os.stat(path).st_mode):  # before open(): a FIFO would block it
             raise LayoutFileError(f"{path}: not a regular file")
-        with open(path, "rb") as stream:
-            if os.fstat(stream.fileno()).st_size > MAX_FILE_BYTES:
+        # Checked again on the open file: the name may have been swapped for a FIFO or a device
+        # since; O_NONBLOCK keeps the open of such a swapped-in FIFO from waiting for a writer.
+        with os.fdopen(os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0) | getattr(os, "O_BINARY", 0)),
+                       "rb") as stream:
+            opened = os.fstat(stream.fileno())
+            if not stat.S_ISREG(opened.st_mode):
+                raise LayoutFileError(f"{path}: not a regular file")
+            if opened.st_size > MAX_FILE_BYTES:
                 raise LayoutFileError(f"{path}: larger than {MAX_FILE_BYTES // 2**20} MiB; "
                                       f"not a layout file")
             data = stream.read(MAX_FILE_BYTES + 1)

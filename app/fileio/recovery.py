@@ -60,8 +60,12 @@ def write_recovery(layout: Layout, layout_path: Path | str | None) -> Path:
                              f"{error.strerror or error}") from error
     data = layout_to_dict(layout)
     data["recovery_of"] = None if layout_path is None else str(Path(layout_path).absolute())
-    text = json.dumps(data, indent=1, ensure_ascii=False, allow_nan=False)
-    write_atomic(target, (text + "\n").encode("utf-8"), mode=PRIVATE_MODE)
+    try:
+        text = json.dumps(data, indent=1, ensure_ascii=False, allow_nan=False)
+        encoded = (text + "\n").encode("utf-8")
+    except ValueError as error:  # a NaN or a lone surrogate that slipped past the model's checks
+        raise FileWriteError(f"cannot write the recovery copy: {error}") from error
+    write_atomic(target, encoded, mode=PRIVATE_MODE)
     return target
 
 

@@ -16,6 +16,7 @@ import shapely
 from shapely.geometry import Polygon
 from shapely.geometry.base import BaseGeometry
 
+from app.model.bends import Bend, Reversal, find_bends
 from app.model.check_inputs import build_check_inputs
 from app.model.design_context import DesignContext, context_for, default_radius_m, line_width_m, rules_problem
 from app.model.elements import Centerline, Layout, Runway
@@ -61,6 +62,7 @@ class LayoutAnalyzer:
         self._polylines: dict[tuple[object, ...], np.ndarray] = {}
         self._junctions: dict[tuple[object, ...], tuple[JunctionResult, tuple[str, ...]]] = {}
         self._network: JunctionNetwork | None = None
+        self._last_findings: tuple[Finding, ...] | None = None
         self.last_recomputed_junctions = 0
 
     # -- lines -----------------------------------------------------------------------------
@@ -92,7 +94,12 @@ class LayoutAnalyzer:
                 cache.clear()
 
     # -- the whole layout ------------------------------------------------------------------
-    def analyze(self, layout: Layout) -> LayoutResult:
+    def analyze_live(self, layout: Layout) -> LayoutResult:
+        """The pass used while a drag previews: everything but the design checks, whose findings are
+        those of the last full pass (they are brought up to date when the drag ends)."""
+        return self.analyze(layout, with_findings=False)
+
+    def analyze(self, layout: Layout, *, with_findings: bool = True) -> LayoutResult:
         self._prune()
         context = context_for(layout)
         problem = rules_problem(context)
@@ -116,7 +123,10 @@ class LayoutAnalyzer:
                    else update_network(self._network, lines))
         self._network = network
         straights = {line.id: self._straight_of(line.segments, widths[line.id]) for line in lines}
-        junctions, problems = self._junction_results(layout, network, context, widths, straights)
+        bends, reversals = find_bends(layout.centerlines, [j.point for j in network.junctions],
+                                      network.snap_tolerance_m)
+        findings.extend(_reversal_finding(reversal) for reversal in reversals)
+        junctions, problems = self._junction_results(layout, network, bends, context, widths, straights)
         for junction_id, texts in problems.items():
             point = junctions[junction_id].point_m
             findings.extend(Finding("W-FILLET-FORM", Severity.WARNING,
@@ -124,16 +134,19 @@ class LayoutAnalyzer:
                                     f"the exact required pavement is shown as the pavement to build: {text}",
                                     (junction_id,), point, "buildable fillet", "docs/pavement.md")
                             for text in texts)
-        return self._assemble(layout, context, network, geometries, widths, straights, junctions, findings)
+        return self._assemble(layout, context, network, geometries, widths, straights, junctions, findings,
+                              with_findings, bends)
 
-    def _junction_results(self, layout: Layout, network: JunctionNetwork, context: DesignContext,
-                          widths: dict[str, float], straights: dict[str, BaseGeometry]
+    def _junction_results(self, layout: Layout, network: JunctionNetwork, bends: list[Bend],
+                          context: DesignContext, widths: dict[str, float], straights: dict[str, BaseGeometry]
                           ) -> tuple[dict[str, JunctionResult], dict[str, tuple[str, ...]]]:
         results: dict[str, JunctionResult] = {}
         problems: dict[str, tuple[str, ...]] = {}
         recomputed = 0
-        overrides = dict(layout.turn_radius_overrides_m)
-        for junction in network.junctions:
+        # A bend turns on the planner's corner radius (unless overridden like any corner).
+        overrides = {bend.corner_key: bend.corner_radius_m for bend in bends if bend.corner_radius_m}
+        overrides.update(layout.turn_radius_overrides_m)
+        for junction in (*network.junctions, *(bend.junction for bend in bends)):
             prefix = junction.id + "|"
             excluded = frozenset(k for k in layout.excluded_movements if k.startswith(prefix))
             own_overrides = tuple(sorted((k, v) for k, v in overrides.items() if k.startswith(prefix)))
@@ -153,18 +166,20 @@ class LayoutAnalyzer:
     def _assemble(self, layout: Layout, context: DesignContext, network: JunctionNetwork,
                   geometries: dict[str, LineGeometry], widths: dict[str, float],
                   straights: dict[str, BaseGeometry], junctions: dict[str, JunctionResult],
-                  findings: list[Finding]) -> LayoutResult:
+                  findings: list[Finding], with_findings: bool, bends: list[Bend]) -> LayoutResult:
         straight = shapely.union_all(list(straights.values())) if straights else Polygon()
         extra = [piece for result in junctions.values() for piece in
                  (*(fillet.outline for fillet in result.fillets), result.buildable_area)]
         total = shapely.union_all([straight, *extra]) if extra else straight
         existing = [Polygon(p.outline, p.holes) for p in layout.existing_pavements]
         new = total.difference(shapely.union_all(existing)) if existing else total
-        inputs = build_check_inputs(layout, context, network, widths, junctions, total)
-        findings.extend(run_checks(inputs))
+        if with_findings or self._last_findings is None:
+            inputs = build_check_inputs(layout, context, network, widths, junctions, total, bends)
+            findings.extend(run_checks(inputs))
+            self._last_findings = tuple(sorted(findings, key=_finding_order))
         polylines = {line_id: self._polyline_of(g.segments) for line_id, g in geometries.items()}
         return LayoutResult(junctions, straight, total, new, float(total.area), float(new.area),
-                            tuple(sorted(findings, key=_finding_order)), polylines)
+                            self._last_findings, polylines)
 
     def _without_rules(self, layout: Layout, geometries: dict[str, LineGeometry], problem: str,
                        findings: list[Finding]) -> LayoutResult:
@@ -194,6 +209,14 @@ def _junction_key(junction: Junction, context: DesignContext, overrides: dict[st
     legs = tuple((leg.id, leg.line_id, leg.line_kind, leg.heading_rad, min(leg.length_m, cap_m),
                   min(leg.straight_length_m, cap_m), leg.direction) for leg in junction.legs)
     return (junction.id, junction.point, junction.kind, legs)
+
+
+def _reversal_finding(reversal: Reversal) -> Finding:
+    return Finding("E-CENTERLINE-REVERSAL", Severity.ERROR,
+                   f"Centerline {reversal.line_id} doubles back on itself at vertex {reversal.vertex_number}: "
+                   f"no aircraft can follow it. Remove the vertex or draw the turn with a radius.",
+                   (reversal.line_id,), reversal.point_m, "a centerline an aircraft can follow",
+                   "identity (the pursuit model of docs/kinematics.md)")
 
 
 def _finding_order(finding: Finding) -> tuple[int, str, float, float]:

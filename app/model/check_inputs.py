@@ -3,10 +3,12 @@
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 
 from shapely.geometry import Point, Polygon
 from shapely.geometry.base import BaseGeometry
 
+from app.model.bends import Bend
 from app.model.design_context import DesignContext, line_design_aircraft
 from app.model.elements import Layout
 from app.model.results import JunctionResult, MovementResult
@@ -46,9 +48,12 @@ def _movement_info(movement: MovementResult, junction: JunctionResult, turn_line
 
 def build_check_inputs(layout: Layout, context: DesignContext, network: JunctionNetwork,
                        widths: dict[str, float],
-                       junctions: dict[str, JunctionResult], pavement: BaseGeometry) -> CheckInputs:
+                       junctions: dict[str, JunctionResult], pavement: BaseGeometry,
+                       bends: Sequence[Bend] = ()) -> CheckInputs:
+    """``bends`` join the junctions, so their turns are checked like any junction's."""
     fleet_by_name = {aircraft.name: aircraft for aircraft in context.fleet}
-    legs = {leg.id: leg.line_id for junction in network.junctions for leg in junction.legs}
+    all_junctions = (*network.junctions, *(bend.junction for bend in bends))
+    legs = {leg.id: leg.line_id for junction in all_junctions for leg in junction.legs}
     movements = tuple(_movement_info(m, result, (legs[m.from_leg_id], legs[m.to_leg_id]),
                                     fleet_by_name)
                       for result in junctions.values() for m in result.movements
@@ -56,7 +61,7 @@ def build_check_inputs(layout: Layout, context: DesignContext, network: Junction
     right_angles, exits = find_runway_connections(network.junctions)
     return CheckInputs(
         rule_set=context.rule_set, fleet=context.fleet,
-        lines=_line_infos(layout, context, network, widths), junctions=network.junctions,
+        lines=_line_infos(layout, context, network, widths), junctions=all_junctions,
         movements=movements, crossovers=find_crossovers(network.junctions, layout.excluded_movements),
         right_angle_connections=right_angles, acute_exits=exits, objects=_object_infos(layout),
         pavement=pavement, runway_widths_m={r.id: r.width_m for r in layout.runways},

@@ -82,6 +82,11 @@ def _point(xy: object, what: str) -> XY:
 def _text(value: object, what: str) -> str:
     if not isinstance(value, str):
         raise EditError(f"{what} must be text, got {value!r}")
+    try:
+        value.encode("utf-8")
+    except UnicodeEncodeError as error:  # a lone UTF-16 surrogate: such text could never be saved
+        raise EditError(f"{what} holds a character that is not valid text, at position "
+                        f"{error.start + 1}") from error
     return value
 
 

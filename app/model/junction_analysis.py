@@ -127,13 +127,18 @@ def _fit_corner(key: str, computed: list[_Computed], inputs: JunctionInputs,
 
 
 MARGIN_EDGE_SIMPLIFY_M = 0.001  # the pavement edge is simplified this much before measuring margins
-PLOT_STEP_M = 0.5               # margins and plotted values every half metre of cockpit travel
+# Margins and plotted values every metre of cockpit travel: the tyre edges bend gently (radius of
+# 10 m or more), so the least margin between samples is missed by at most 1 / (8 x 10) m ~ 1 cm.
+PLOT_STEP_M = 1.0
 MARGIN_REACH_M = 60.0           # pavement edges farther than this from a track do not set its margin
 
 
 def _signed_margins(points: np.ndarray, pavement: BaseGeometry, edge: BaseGeometry) -> np.ndarray:
     """Distance from each point to the pavement edge: positive inside, negative outside."""
-    distance = shapely.distance(edge, shapely.points(points)) if not edge.is_empty else np.full(len(points), MARGIN_REACH_M)
+    if edge.is_empty:
+        distance = np.full(len(points), MARGIN_REACH_M)
+    else:
+        distance = np.minimum(shapely.distance(edge, shapely.points(points)), MARGIN_REACH_M)
     inside = shapely.contains_xy(pavement, points[:, 0], points[:, 1])
     return np.where(inside, distance, -distance)
 
@@ -190,7 +195,12 @@ def _movement_result(one: _Computed, inputs: JunctionInputs, pavement: BaseGeome
         required_area=one.area, required_area_m2=float(one.area.area) if one.area is not None else 0.0,
         max_steering_deg=max((t.max_steering_deg for t in tracks), default=0.0),
         min_edge_margin_m=min((t.min_edge_margin_m for t in tracks), default=math.inf),
-        problem=one.problem)
+        problem=one.problem, corner_key=_single_corner(movement, inputs.junction))
+
+
+def _single_corner(movement: Movement, junction: Junction) -> str | None:
+    keys = corner_of(movement, junction).corner_keys
+    return keys[0] if len(keys) == 1 else None
 
 
 def _straight_movement(movement: Movement, inputs: JunctionInputs) -> MovementResult:

@@ -61,9 +61,11 @@ class MovementResult:
     tracks: tuple[AircraftTracks, ...]
     required_area: BaseGeometry | None
     required_area_m2: float
-    max_steering_deg: float
-    min_edge_margin_m: float
+    max_steering_deg: float          # 0.0 when the movement has no tracks
+    min_edge_margin_m: float         # +inf when it has no tracks (straight on, excluded, not computable):
+                                     # the minimum over no track; the one infinity in a result
     problem: str | None = None       # why the movement could not be computed (leg too short...)
+    corner_key: str | None = None    # the corner whose turn radius and fillet this turn uses
 
 
 @dataclass(frozen=True, slots=True, eq=False)

@@ -7,6 +7,8 @@ through the ``pointer`` signal; the canvas itself never edits anything.
 
 from __future__ import annotations
 
+import math
+
 import pyqtgraph as pg
 from PySide6 import QtCore, QtGui, QtWidgets
 
@@ -79,13 +81,26 @@ class PlanViewBox(pg.ViewBox):
         self._send("move", ev.pos(), "none", ev.modifiers())
 
 
+LEFT_AXIS_WIDTH_PX = 84  # room for "10,000,000" and the axis title
+
+
+class PlainNumberAxis(pg.AxisItem):
+    """Tick labels as plain numbers with thousands separators: survey coordinates (millions of
+    feet) read as 2,108,000, never as 2.108e+06."""
+
+    def tickStrings(self, values: list[float], scale: float, spacing: float) -> list[str]:
+        decimals = max(0, -math.floor(math.log10(spacing * scale))) if spacing * scale > 0 else 0
+        return [f"{value * scale:,.{min(decimals, 6)}f}" for value in values]
+
+
 class PlanCanvas(pg.PlotWidget):
     pointer = QtCore.Signal(object)            # PointerEvent
     cursor_moved = QtCore.Signal(float, float)  # plan metres
 
     def __init__(self, parent: QtWidgets.QWidget | None = None, theme: Theme = LIGHT) -> None:
         view_box = PlanViewBox()
-        super().__init__(parent, viewBox=view_box)
+        super().__init__(parent, viewBox=view_box,
+                         axisItems={side: PlainNumberAxis(side) for side in ("bottom", "left")})
         view_box.canvas = self
         self.view_box = view_box
         self.theme = theme
@@ -95,6 +110,8 @@ class PlanCanvas(pg.PlotWidget):
         self.plotItem.hideButtons()
         for axis in ("bottom", "left"):
             self.plotItem.getAxis(axis).enableAutoSIPrefix(False)
+        # A fixed width: labels of changing length must not shift the plan under the cursor.
+        self.plotItem.getAxis("left").setWidth(LEFT_AXIS_WIDTH_PX)
         self.layers = {name: LayerGraphics(view_box, name, 10.0 * index, theme,
                                            HANDLE_STYLES if name == "centerlines" else frozenset())
                        for index, name in enumerate(LAYER_ORDER)}

@@ -50,7 +50,8 @@ def save_screenshot(window: MainWindow, path: str | Path) -> bool:
     return bool(window.grab().save(str(path), "PNG"))
 
 
-def run(layout_path: str | None, screenshot: str | None, *, analyze: Analyze | None = None) -> int:
+def run(layout_path: str | None, screenshot: str | None, *, analyze: Analyze | None = None,
+        analyze_live: Analyze | None = None) -> int:
     """Open the window (on ``layout_path`` if given). Returns the exit status: 0, or 2 when the
     layout cannot be opened, 1 when the screenshot cannot be written."""
     app = _application()
@@ -61,7 +62,7 @@ def run(layout_path: str | None, screenshot: str | None, *, analyze: Analyze | N
         except (LayoutFileError, OSError) as error:
             print(f"taxiwright: cannot open {layout_path}: {error}", file=sys.stderr)
             return 2
-    window = MainWindow(document, analyze)
+    window = MainWindow(document, analyze, analyze_live=analyze_live)
     if screenshot is not None:
         window.resize(*SCREENSHOT_SIZE)
         window.show()

@@ -13,7 +13,13 @@ import numpy as np
 from PySide6 import QtCore, QtGui, QtWidgets
 
 from app.model.document import Document, LayoutChange
-from app.model.edits import EditError, remove_elements, set_movement_excluded, set_units
+from app.model.edits import (
+    EditError,
+    remove_elements,
+    set_movement_excluded,
+    set_turn_radius_override,
+    set_units,
+)
 from app.model.elements import Layout
 from app.model.ids import element_ids
 from app.model.results import LayoutResult, MovementResult
@@ -22,6 +28,7 @@ from app.model.tools import Selection
 from app.ui import about
 from app.ui.actions import WindowActions
 from app.ui.canvas import PlanCanvas
+from app.ui.export_dialog import export_from_window
 from app.ui.files import FileController, display_name
 from app.ui.messages import Messages
 from app.ui.panels.findings_panel import FindingsPanel
@@ -33,7 +40,7 @@ from app.ui.style import CAUTION, DARK, LIGHT
 from app.ui.tool_controller import ToolController
 from app.ui.underlay_controller import install_underlays
 from geometry.findings import Finding
-from geometry.units import from_metres
+from geometry.units import from_metres, to_metres
 
 Analyze = Callable[[Layout], LayoutResult]
 STATUS_MARGIN_PX = 12
@@ -41,14 +48,26 @@ STATUS_PAD_PX = 6  # the status bar's own frame above and below its widgets
 FINDING_ZOOM_SPAN_M = 150.0  # the view around a finding when it is clicked: a junction and its legs
 
 
+def pavement_summary(result: LayoutResult | None, units: str) -> str:
+    """``"Pavement 12,345 ft² (new 2,345 ft²)"`` for the status bar; empty before any result."""
+    if result is None:
+        return ""
+    per_m2 = from_metres(1.0, units) ** 2
+    return (f"Pavement {result.total_area_m2 * per_m2:,.0f} {units}² "
+            f"(new {result.new_area_m2 * per_m2:,.0f} {units}²)")
+
+
 class MainWindow(QtWidgets.QMainWindow):
     computed = QtCore.Signal()  # the scene and panels show the current layout
 
     def __init__(self, document: Document, analyze: Analyze | None = None,
-                 settings: QtCore.QSettings | None = None) -> None:
+                 settings: QtCore.QSettings | None = None, *, analyze_live: Analyze | None = None) -> None:
+        """``analyze_live``, when given, is used while a drag previews: a cheaper pass (geometry
+        and pavement, findings from the last full pass) so that the drag stays fluid."""
         super().__init__()
         self.document = document
         self._analyze = analyze
+        self._analyze_live = analyze_live
         self.settings = settings if settings is not None else QtCore.QSettings("taxiwright", "taxiwright")
         self.result: LayoutResult | None = None
         self.scene: Scene | None = None
@@ -98,7 +117,11 @@ class MainWindow(QtWidgets.QMainWindow):
         self.coords_label = QtWidgets.QLabel()
         self.coords_label.setMinimumWidth(260)
         self.coords_label.setAlignment(QtCore.Qt.AlignmentFlag.AlignRight)
+        self.area_label = QtWidgets.QLabel()
+        self.area_label.setToolTip("Pavement of the layout: straights and fillets in total, and the part "
+                                   "that is new (outside the existing pavement)")
         top.addWidget(self.status_label, 1)
+        top.addWidget(self.area_label)
         top.addWidget(self.coords_label)
         self.caution = QtWidgets.QLabel(CAUTION)
         self.caution.setObjectName("caution")
@@ -141,6 +164,7 @@ class MainWindow(QtWidgets.QMainWindow):
         self.layers_panel.visibility_changed.connect(self.canvas.set_layer_visible)
         self.findings_panel.finding_activated.connect(self.go_to_finding)
         self.junction_panel.exclusion_toggled.connect(self._set_excluded)
+        self.junction_panel.radius_requested.connect(self._ask_turn_radius)
         self.junction_panel.movement_selected.connect(self._show_movement)
         self.fleet_panel.problem.connect(self.messages.warn)
 
@@ -150,6 +174,7 @@ class MainWindow(QtWidgets.QMainWindow):
         a.open.triggered.connect(lambda: self.files.open())
         a.save.triggered.connect(self.files.save)
         a.save_as.triggered.connect(self.files.save_as)
+        a.export_dxf.triggered.connect(lambda: export_from_window(self))
         a.quit.triggered.connect(self.close)
         a.undo.triggered.connect(self.document.undo)
         a.redo.triggered.connect(self.document.redo)
@@ -202,6 +227,7 @@ class MainWindow(QtWidgets.QMainWindow):
         self.tools.prune_selection(layout, frozenset(junctions) if self.result is not None else None)
         self._show_selection()
         self.findings_panel.show_findings(self.result.findings if self.result is not None else None)
+        self.area_label.setText(pavement_summary(self.result, layout.units))
         self.fleet_panel.show_fleet(layout)
         if self._fit_pending:
             self._fit_pending = False
@@ -211,8 +237,9 @@ class MainWindow(QtWidgets.QMainWindow):
     def _run_analysis(self, layout: Layout) -> LayoutResult | None:
         if self._analyze is None:
             return None
+        live = self._analyze_live is not None and self.document.is_previewing
         try:
-            return self._analyze(layout)
+            return (self._analyze_live if live else self._analyze)(layout)  # type: ignore[misc]
         except Exception as error:
             self.messages.warn(f"The layout could not be analysed: {error}")
             return None
@@ -247,6 +274,19 @@ class MainWindow(QtWidgets.QMainWindow):
         ids = self.tools.selection.element_ids
         if ids:
             self.edit("Delete", lambda lay: remove_elements(lay, ids))
+
+    def _ask_turn_radius(self, movement: MovementResult | None) -> None:
+        if movement is None or movement.corner_key is None:
+            return
+        units = self.document.layout.units
+        current = from_metres(movement.radius_m or 0.0, units)
+        radius = self.messages.ask_radius(f"Centerline radius of this corner's turns ({units}); "
+                                          f"0 goes back to the default", current)
+        if radius is None:
+            return
+        radius_m = to_metres(radius, units) if radius > 0.0 else None
+        label = "Set turn radius" if radius_m else "Default turn radius"
+        self.edit(label, lambda lay: set_turn_radius_override(lay, movement.corner_key, radius_m))
 
     def _set_excluded(self, movement_key: str, excluded: bool) -> None:
         label = "Exclude movement" if excluded else "Include movement"

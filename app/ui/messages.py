@@ -88,5 +88,10 @@ class Messages(QtCore.QObject):
         chosen = Path(path)
         return chosen if chosen.suffix else chosen.with_suffix(".json")
 
+    def ask_radius(self, prompt: str, current: float) -> float | None:
+        value, accepted = QtWidgets.QInputDialog.getDouble(self._window, "Turn radius", prompt, current,
+                                                           0.0, 1e5, 2)
+        return value if accepted else None
+
     def about(self, title: str, html: str) -> None:
         QtWidgets.QMessageBox.about(self._window, title, html)

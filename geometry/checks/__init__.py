@@ -19,6 +19,7 @@ from geometry.checks.common import CheckContext
 from geometry.checks.crossovers import check_crossover_spacing, check_reversal_steering
 from geometry.checks.inputs import CheckInputs, LineInfo, MovementInfo, ObjectInfo, TrackInfo
 from geometry.checks.junction_rules import check_paths
+from geometry.checks.overlaps import check_overlaps
 from geometry.checks.runways import check_runway_connections, check_wide_throats
 from geometry.checks.separations import check_line_separations, check_object_separations
 from geometry.checks.steering import SteeringRadii, check_steering, check_turn_fit
@@ -55,6 +56,7 @@ def run_checks(inputs: CheckInputs) -> tuple[Finding, ...]:
         ("reversal steering", lambda: check_reversal_steering(context, radii)),
         ("wide throat", lambda: check_wide_throats(context)),
         ("runway connection", lambda: check_runway_connections(context)),
+        ("overlapping centerlines", lambda: check_overlaps(context)),
     )
     findings: list[Finding] = []
     for name, family in families:

@@ -122,3 +122,17 @@ def test_unchanged_layout_reuses_every_junction() -> None:
     second = analyzer.analyze(crossing())
     assert analyzer.last_recomputed_junctions == 0
     assert list(first.junctions.values())[0] is list(second.junctions.values())[0]
+
+
+def test_live_pass_updates_geometry_and_keeps_the_last_findings() -> None:
+    analyzer = LayoutAnalyzer()
+    near = Layout(units="m", fleet=FLEET, centerlines=(
+        Centerline("twy-1", "A", (Vertex(-300.0, 0.0), Vertex(300.0, 0.0))),
+        Centerline("twy-2", "B", (Vertex(-300.0, 20.0), Vertex(300.0, 20.0)))))
+    full = analyzer.analyze(near)
+    assert "E-SEP-TWY-TWY" in {f.code for f in full.findings}  # 20 m apart: far too close (identity)
+    moved = edits.move_vertex(near, "twy-2", 0, -300.0, 200.0)
+    live = analyzer.analyze_live(moved)
+    assert live.findings == full.findings  # the checks wait for the end of the drag
+    assert live.straight_pavement.symmetric_difference(full.straight_pavement).area > 1.0
+    assert analyzer.analyze(moved).findings != full.findings

@@ -3,7 +3,8 @@
 Run by run.py as ``python -m tests.benchmarks.bench_window SAMPLE [--frames N]``; prints one JSON
 object. The window is built as the program builds it, with a ``LayoutAnalyzer`` (kept between
 frames, as during a real drag) as its analysis. The dragged vertex is the end of a line at a tee,
-moved along the through line, so the tee stays a tee. A frame is timed from the edit
+moved along the through line, so the tee stays a tee (or, in a layout without tees, a vertex at a
+crossing, moved along the crossing line). A frame is timed from the edit
 (``move_vertex`` and ``Document.preview``) through the recompute and scene rebuild
 (``MainWindow.refresh_now``) to a synchronous repaint of the plan view.
 """
@@ -46,20 +47,21 @@ def _distance_to_piece(p: tuple[float, float], a: tuple[float, float], b: tuple[
 
 
 def sample_drag_target(layout: Layout, result: LayoutResult) -> DragTarget:
-    """The end vertex of a line at the first tee (by id), dragged along the through line."""
-    for junction in sorted(result.junctions.values(), key=lambda j: j.junction_id):
-        if junction.kind != "tee":
-            continue
+    """A centerline vertex that lies on a junction of two lines, dragged along the other line; the
+    end of a line at a tee first (by junction id), else a vertex at a crossing."""
+    junctions = sorted(result.junctions.values(), key=lambda j: (j.kind != "tee", j.junction_id))
+    for junction in junctions:
         for line in layout.centerlines:
-            for index in (0, len(line.vertices) - 1):
-                vertex = line.vertices[index]
-                others = [i for i in junction.line_ids if i != line.id]
-                if math.dist(vertex.xy, junction.point_m) > 1e-6 or len(others) != 1:
+            others = [i for i in junction.line_ids if i != line.id]
+            if len(others) != 1:
+                continue
+            for index, vertex in enumerate(line.vertices):
+                if math.dist(vertex.xy, junction.point_m) > 1e-6:
                     continue
                 heading = _through_heading_rad(layout, others[0], junction.point_m)
                 if heading is not None:
                     return DragTarget(line.id, index, vertex.x_m, vertex.y_m, heading)
-    raise SystemExit("the sample layout has no tee junction at a line end to drag")
+    raise SystemExit("the layout has no centerline vertex on a junction of two lines to drag")
 
 
 def measure(sample: Path, frames: int) -> dict[str, object]:

@@ -3,9 +3,9 @@ old file or the new one on disk, never a mix.
 
 Child processes save a large layout over and over, alternating between two versions, and are
 killed with SIGKILL (no clean-up runs) after random delays. The file must then hold exactly the
-bytes of one version (which layout_json's tests show to load). tests/app/test_recovery.py covers failures that Python sees
-(a full disk, a refused rename, an interrupt); this covers the ones it does not. Expected values
-are identities of the module's definition (its docstring).
+bytes of one version (which layout_json's tests show to load). tests/app/test_recovery.py covers
+failures that Python sees (a full disk, a refused rename, an interrupt); this covers the ones it
+does not. Expected values are identities of the module's definition (its docstring).
 """
 
 from __future__ import annotations
@@ -86,7 +86,7 @@ def test_a_save_killed_at_random_moments_leaves_the_old_or_the_new_layout(tmp_pa
         mode = "save" if number >= ROUNDS - FULL_SAVE_ROUNDS else "bytes"  # the slow starters last
         rounds.append((target, mode, start_child(mode, target, *sources), rng.uniform(0.0, MAX_DELAY_S)))
     torn_writes = 0
-    for target, mode, child, delay_s in rounds:
+    for target, _mode, child, delay_s in rounds:
         assert child.stdout is not None and child.stdout.readline() == "ready\n", child.stderr
         time.sleep(delay_s)
         child.send_signal(signal.SIGKILL)

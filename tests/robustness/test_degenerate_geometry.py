@@ -128,7 +128,8 @@ def test_dragging_the_last_distinct_vertex_onto_the_other_is_refused() -> None:
     layout = layout_of(line("a", (0.0, 0.0), (80.0, 0.0)))
     with pytest.raises(EditError, match="all its vertices at one point"):
         edits.move_vertex(layout, "a", 1, 0.0, 0.0)
-    runway = edits.add_runway(layout, Runway("rwy", "09/27", (Vertex(0.0, -300.0), Vertex(900.0, -300.0)), 45.0))
+    thresholds = (Vertex(0.0, -300.0), Vertex(900.0, -300.0))
+    runway = edits.add_runway(layout, Runway("rwy", "09/27", thresholds, 45.0))
     with pytest.raises(EditError, match="runway 'rwy' has all its vertices at one point"):
         edits.move_vertex(runway, "rwy", 0, 900.0, -300.0)
 
@@ -170,7 +171,8 @@ def test_a_170_degree_hairpin_gives_turn_fit_findings() -> None:
 
 def test_state_plane_coordinates_give_the_same_result_as_near_the_origin() -> None:
     def sketch(dx: float, dy: float) -> Layout:
-        return layout_of(line("a", (dx, dy), (dx + 400.0, dy), (dx + 400.0, dy + 300.0), radii=(None, 60.0, None)),
+        bend = line("a", (dx, dy), (dx + 400.0, dy), (dx + 400.0, dy + 300.0), radii=(None, 60.0, None))
+        return layout_of(bend,
                          line("b", (dx + 200.0, dy - 200.0), (dx + 200.0, dy + 200.0)), units="ft")
 
     near, far = analysed(sketch(0.0, 0.0)), analysed(sketch(*STATE_PLANE_M))
@@ -192,24 +194,22 @@ def test_every_movement_without_tracks_has_the_documented_infinite_margin() -> N
             assert math.isfinite(movement.min_edge_margin_m) and movement.tracks
 
 
-# Known gaps (docs/robustness.md): the analysis stays finite, but no finding tells the planner.
-GAP = "no finding yet for this degenerate sketch: reported to the checks owner (docs/robustness.md)"
-
-
-@pytest.mark.xfail(strict=True, reason=GAP)
 @pytest.mark.parametrize("second", [line("b", (0.0, 0.0), (100.0, 0.0)), line("b", (50.0, 0.0), (150.0, 0.0)),
                                     line("b", (100.0, 0.0), (0.0, 0.5))],
                          ids=["identical", "collinear-overlap", "hairpin-179.7-deg"])
 def test_centerlines_lying_on_each_other_are_flagged(second: Centerline) -> None:
-    assert flags(analysed(layout_of(line("a", (0.0, 0.0), (100.0, 0.0)), second)), "a", "b")
+    result = analysed(layout_of(line("a", (0.0, 0.0), (100.0, 0.0)), second))
+    assert "E-OVERLAP" in codes(result) and flags(result, "a", "b")  # geometry/checks/overlaps.py
 
 
-@pytest.mark.xfail(strict=True, reason=GAP)
-@pytest.mark.parametrize("sketch", [line("a", (0.0, 0.0), (100.0, 0.0), (0.0, 0.0)),
-                                    line("a", (0.0, 0.0), (200.0, 0.0), (200.0, 200.0), radii=(None, 0.5, None))],
-                         ids=["doubles-back", "half-metre-corner"])
-def test_a_centerline_no_aircraft_can_follow_is_flagged(sketch: Centerline) -> None:
-    assert flags(analysed(layout_of(sketch)), "a")
+def test_a_centerline_that_doubles_back_is_flagged() -> None:
+    result = analysed(layout_of(line("a", (0.0, 0.0), (100.0, 0.0), (0.0, 0.0))))
+    assert "E-CENTERLINE-REVERSAL" in codes(result) and flags(result, "a")
+
+
+def test_a_corner_radius_no_aircraft_can_follow_is_flagged() -> None:
+    result = analysed(layout_of(line("a", (0.0, 0.0), (200.0, 0.0), (200.0, 200.0), radii=(None, 0.5, None))))
+    assert "E-STEERING" in codes(result) and flags(result, "a")  # the bend is a turn like any other
 
 
 # GEOS divides by zero when a mitred buffer meets an exact reversal of direction at this width (the
@@ -252,9 +252,10 @@ def sketches(draw: st.DrawFn) -> tuple[Layout, list[tuple[str, object]]]:
         steps.append(("runway", Runway("rwy-1", "18/36", (Vertex(ox + draw(coordinate), oy - 250.0),
                                                         Vertex(ox + draw(coordinate), oy + 250.0)), 45.0)))
     if draw(st.booleans()):
-        steps.append(("object", FixedObject("obj-1", "Mast", ((ox + draw(coordinate), oy + draw(coordinate)),), 9.0)))
-        steps.append(("pavement", ExistingPavement("pav-1", "Old", ((ox - 70.0, oy - 70.0), (ox + 70.0, oy - 70.0),
-                                                                    (ox, oy + 70.0)))))
+        mast = ((ox + draw(coordinate), oy + draw(coordinate)),)
+        steps.append(("object", FixedObject("obj-1", "Mast", mast, 9.0)))
+        patch = ((ox - 70.0, oy - 70.0), (ox + 70.0, oy - 70.0), (ox, oy + 70.0))
+        steps.append(("pavement", ExistingPavement("pav-1", "Old", patch)))
     if len(ids) > 1:
         junction = f"J:{ids[0]}/{ids[1]}#0"
         sides = draw(st.sampled_from(["+~", "-~"])) + ids[1] + draw(st.sampled_from(["+", "-"]))
@@ -279,6 +280,7 @@ def apply_steps(layout: Layout, steps: list[tuple[str, object]]) -> Layout:
 @pytest.mark.filterwarnings(*REVERSAL_WARNINGS)
 @settings(max_examples=30, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(sketches())
-def test_random_sketches_analyse_without_error_or_nan(sketch: tuple[Layout, list[tuple[str, object]]]) -> None:
+def test_random_sketches_analyse_without_error_or_nan(sketch: tuple[Layout, list[tuple[str, object]]]
+                                                       ) -> None:
     layout = apply_steps(*sketch)
     analysed(layout)

@@ -19,7 +19,7 @@ import socket
 import subprocess
 import sys
 from collections.abc import Iterator
-from dataclasses import fields, is_dataclass
+from dataclasses import fields, is_dataclass, replace
 from pathlib import Path
 from typing import Any
 
@@ -27,8 +27,10 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from app.cli import main
+from app import cli_check
+from app.cli import build_parser, main
 from app.fileio import layout_json
+from app.fileio.atomic import FileWriteError
 from app.fileio.layout_json import (
     MAX_JSON_CONTAINERS,
     MAX_JSON_ITEMS,
@@ -37,8 +39,11 @@ from app.fileio.layout_json import (
     layout_to_bytes,
     load_layout,
 )
-from app.model.edits import check_layout
+from app.fileio.recovery import write_recovery
+from app.model import edits
+from app.model.edits import EditError, check_layout
 from app.model.elements import Layout
+from geometry.errors import InvalidPathError
 
 REPO = Path(__file__).resolve().parents[2]
 FIXTURE = REPO / "tests" / "app" / "fixtures" / "layout_v1_ft.json"
@@ -225,7 +230,8 @@ def related(named: str, changed: list[str]) -> bool:
 
 @settings(FUZZ, max_examples=150)
 @given(mutated_files())
-def test_mutated_files_load_whole_or_name_what_is_wrong(folder: Path, mutated: tuple[bytes, list[str]]) -> None:
+def test_mutated_files_load_whole_or_name_what_is_wrong(folder: Path,
+                                                        mutated: tuple[bytes, list[str]]) -> None:
     data, changed = mutated
     result = outcome(data, folder)
     if isinstance(result, str):
@@ -250,7 +256,8 @@ def with_value(path: Path_, raw: str) -> bytes:
     (("centerlines", 0, "vertices", 1, "x"), "-Infinity", "centerlines[0].vertices[1].x: expected a finite"),
     (("runways", 0, "vertices"), "[" * 50 + "]" * 50, "runways[0].vertices: expected at least 2"),
     (("objects",), "[" + ", ".join(["{}"] * 20) + "]", "objects[0].height: missing required field"),
-    (("underlays", 1, "placement"), "[1, 0, 2, 0, 0, 0]", "underlays[1].placement: the image placement has zero"),
+    (("underlays", 1, "placement"), "[1, 0, 2, 0, 0, 0]",
+     "underlays[1].placement: the image placement has zero"),
     (("underlays", 0, "opacity"), "1.5", "underlays[0]: underlay 'ulay-1': opacity must be between 0 and 1"),
 ], ids=["surrogate-title", "surrogate-aircraft", "minus-infinity", "nested-lists", "empty-objects",
         "flat-image", "opacity"])
@@ -259,11 +266,16 @@ def test_worst_cases_name_their_field(folder: Path, path: Path_, raw: str, messa
     assert isinstance(result, str) and result.startswith(message)  # identity: layout_json.py messages
 
 
-def test_a_saved_layout_with_a_surrogate_is_refused_not_half_written(folder: Path) -> None:
-    from dataclasses import replace
-    layout = replace(load_layout(FIXTURE), title="\ud800")
+def test_text_that_could_never_be_saved_is_refused_everywhere(folder: Path,
+                                                              monkeypatch: pytest.MonkeyPatch) -> None:
+    with pytest.raises(EditError, match="title holds a character that is not valid text, at position 2"):
+        edits.set_title_notes(Layout(), "A\ud800", "")
+    layout = replace(load_layout(FIXTURE), title="\ud800")  # built around the edits' check
     with pytest.raises(LayoutFileError, match="cannot save the layout"):
         layout_to_bytes(layout)
+    monkeypatch.setenv("TAXIWRIGHT_STATE_DIR", str(folder / "state"))
+    with pytest.raises(FileWriteError, match="cannot write the recovery copy"):
+        write_recovery(layout, None)
 
 
 # --- sizes are limited before anything is built --------------------------------------------------------
@@ -303,10 +315,11 @@ def test_loader_modules_use_no_code_loading_facility(module: str) -> None:
     tree = ast.parse((REPO / "app" / "fileio" / module).read_text(encoding="utf-8"))
     used = {node.id for node in ast.walk(tree) if isinstance(node, ast.Name)}
     used |= {node.attr for node in ast.walk(tree) if isinstance(node, ast.Attribute)}
-    used |= {alias.name.split(".")[0] for node in ast.walk(tree) if isinstance(node, (ast.Import, ast.ImportFrom))
+    nodes = list(ast.walk(tree))
+    used |= {alias.name.split(".")[0] for node in nodes if isinstance(node, (ast.Import, ast.ImportFrom))
              for alias in node.names}
-    used |= {node.module.split(".")[0] for node in ast.walk(tree) if isinstance(node, ast.ImportFrom) and node.module}
-    used |= {kw.arg for node in ast.walk(tree) if isinstance(node, ast.Call) for kw in node.keywords if kw.arg}
+    used |= {node.module.split(".")[0] for node in nodes if isinstance(node, ast.ImportFrom) and node.module}
+    used |= {kw.arg for node in nodes if isinstance(node, ast.Call) for kw in node.keywords if kw.arg}
     assert used.isdisjoint(FORBIDDEN_NAMES), used & FORBIDDEN_NAMES  # JSON only: module docstring
 
 
@@ -317,7 +330,8 @@ def test_code_and_pickles_in_a_file_stay_inert_text(folder: Path) -> None:
     data["title"], data["notes"] = code, "cos\nsystem\n(S'touch executed'\ntR."  # a pickle opcode stream
     layout = outcome(json.dumps(data).encode("utf-8"), folder)
     assert isinstance(layout, Layout) and layout.title == code and not marker.exists()  # identity
-    assert isinstance(outcome(b"\x80\x04\x95\x05\x00\x00\x00\x00\x00\x00\x00N.", folder), str)  # a real pickle
+    real_pickle = b"\x80\x04\x95\x05\x00\x00\x00\x00\x00\x00\x00N."  # pickle.dumps(None, protocol=4)
+    assert isinstance(outcome(real_pickle, folder), str)
 
 
 # --- paths that are not regular files ---------------------------------------------------------------
@@ -391,7 +405,8 @@ def test_check_and_export_of_a_bad_file(folder: Path, capsys: pytest.CaptureFixt
 
 
 @pytest.mark.parametrize("target", ["missing.json", "folder", "fifo"])
-def test_check_of_a_path_that_is_no_file(folder: Path, capsys: pytest.CaptureFixture[str], target: str) -> None:
+def test_check_of_a_path_that_is_no_file(folder: Path, capsys: pytest.CaptureFixture[str],
+                                         target: str) -> None:
     path = {"missing.json": folder / "missing.json", "folder": folder,
             "fifo": special_path("fifo", folder)}[target]
     assert_one_line_failure(main(["check", str(path)]), *capsys.readouterr())
@@ -399,8 +414,7 @@ def test_check_of_a_path_that_is_no_file(folder: Path, capsys: pytest.CaptureFix
 
 def test_the_installed_command_fails_cleanly_in_a_real_process(folder: Path) -> None:
     runs = []
-    for name, command in (("truncated", "check"), ("nan", "check"), ("truncated", "export"),
-                          ("newer-version", "export")):
+    for name, command in (("truncated", "check"), ("nan", "export")):
         output = folder / f"process-{name}.dxf"
         argv = [sys.executable, "-m", "app.cli", command, str(write_bad(folder, name))]
         argv += ["-o", str(output)] if command == "export" else []
@@ -410,3 +424,34 @@ def test_the_installed_command_fails_cleanly_in_a_real_process(folder: Path) -> 
         out, err = process.communicate(timeout=120)
         assert_one_line_failure(process.returncode, out, err)
         assert not output.exists()  # identity
+
+
+def test_the_command_names_are_not_taken_for_a_layout_file() -> None:
+    # identity: app/cli.py, "taxiwright check LAYOUT" and "taxiwright LAYOUT" (= open LAYOUT)
+    parser = build_parser()
+    expected = {"command": "check", "layout": "a.json", "json": False}
+    assert vars(parser.parse_args(["check", "a.json"])) == expected
+    assert parser.parse_args(["export", "a.json", "-o", "b.dxf"]).output == "b.dxf"
+    assert parser.parse_args(["sweep", "--tdg", "3", "--radius", "30", "--delta", "90"]).tdg == "3"
+
+
+def test_check_of_a_good_file_reports_and_an_engine_error_is_one_line(
+        capsys: pytest.CaptureFixture[str], monkeypatch: pytest.MonkeyPatch) -> None:
+    assert main(["check", str(FIXTURE), "--json"]) in (0, 1)  # 1: the layout has error findings
+    report = json.loads(capsys.readouterr().out)
+    assert report["title"] == BASE["title"] and report["units"] == "ft"  # identity: the fixture's own
+
+    def broken(layout: Layout) -> None:
+        raise InvalidPathError("a segment of centerline 'twy-1' has no length")
+
+    monkeypatch.setattr(cli_check, "analyze", broken)
+    assert_one_line_failure(main(["check", str(FIXTURE)]), *capsys.readouterr())
+
+
+def test_a_fifo_swapped_in_after_the_check_is_still_refused(folder: Path,
+                                                            monkeypatch: pytest.MonkeyPatch) -> None:
+    fifo = special_path("fifo", folder)
+    real_stat = os.stat
+    monkeypatch.setattr(layout_json.os, "stat", lambda *args, **kwargs: real_stat(FIXTURE))  # sees a file
+    with pytest.raises(LayoutFileError, match="not a regular file"):
+        load_layout(fifo)  # the open does not wait for a writer, and the open file is checked again

@@ -10,6 +10,7 @@ docstrings: a command is the layout before and after; merging keeps the first be
 
 from __future__ import annotations
 
+import contextlib
 from collections.abc import Callable, Hashable
 from dataclasses import dataclass, field
 from typing import Any
@@ -75,7 +76,8 @@ EDITS: dict[str, tuple[st.SearchStrategy[tuple[Any, ...]], Callable[..., Layout]
              lambda lay, i, kind, tdg, width: edits.update_centerline(
                  lay, i, kind=kind, group=DesignGroup(tdg=tdg), width_override_m=width)),
     "runway": (st.tuples(runway_id, st.floats(0.0, 80.0), st.booleans()),
-               lambda lay, i, width, instrument: edits.update_runway(lay, i, width_m=width, instrument=instrument)),
+               lambda lay, i, width, instrument: edits.update_runway(lay, i, width_m=width,
+                                                                     instrument=instrument)),
     "object": (st.tuples(object_id, st.floats(-2.0, 50.0), st.sampled_from(["sign", "navaid", "tree"])),
                lambda lay, i, height, kind: edits.update_object(lay, i, height_m=height, kind=kind)),
     "pavement": (st.tuples(pavement_id, st.text(max_size=4)),
@@ -85,7 +87,8 @@ EDITS: dict[str, tuple[st.SearchStrategy[tuple[Any, ...]], Callable[..., Layout]
             lambda lay, what, x, y: {
                 "runway": lambda: edits.add_runway(lay, Runway(new_id(lay, "rwy"), "18/36",
                                                                (Vertex(x, y), Vertex(x, y + 800.0)), 30.0)),
-                "object": lambda: edits.add_object(lay, FixedObject(new_id(lay, "obj"), "Sign", ((x, y),), 2.0)),
+                "object": lambda: edits.add_object(lay, FixedObject(new_id(lay, "obj"), "Sign", ((x, y),),
+                                                                    2.0)),
                 "pavement": lambda: edits.add_pavements_from_outlines(
                     lay, [[(x, y), (x + 30.0, y), (x + 30.0, y + 30.0), (x, y + 30.0)]]),
             }[what]()),
@@ -97,8 +100,10 @@ EDITS: dict[str, tuple[st.SearchStrategy[tuple[Any, ...]], Callable[..., Layout]
     "underlay": (st.tuples(st.text(min_size=1, max_size=4), st.booleans()),
                  lambda lay, name, image: edits.add_underlay(lay, _underlay(lay, name, image))),
     "underlay-edit": (st.tuples(st.sampled_from(["ulay-1", "ulay-2"]), st.floats(-0.5, 1.5), st.booleans()),
-                      lambda lay, i, opacity, locked: edits.update_underlay(lay, i, opacity=opacity, locked=locked)),
-    "underlay-order": (st.tuples(st.sampled_from(["ulay-1", "ulay-2"]), st.integers(0, 2)), edits.move_underlay),
+                      lambda lay, i, opacity, locked: edits.update_underlay(lay, i, opacity=opacity,
+                                                                            locked=locked)),
+    "underlay-order": (st.tuples(st.sampled_from(["ulay-1", "ulay-2"]), st.integers(0, 2)),
+                       edits.move_underlay),
     "underlay-remove": (st.tuples(st.sampled_from(["ulay-1", "ulay-2"])), edits.remove_underlay),
 }
 
@@ -138,7 +143,8 @@ def act(document: Document, model: StackModel, name: str, arguments: tuple[Any, 
     layout = document.layout
     if name in ("undo", "redo"):
         getattr(document, name)()
-        model.index = max(0, model.index - 1) if name == "undo" else min(len(model.states) - 1, model.index + 1)
+        step = -1 if name == "undo" else 1
+        model.index = min(max(model.index + step, 0), len(model.states) - 1)
         return
     if name == "save":
         document.mark_saved()
@@ -147,17 +153,16 @@ def act(document: Document, model: StackModel, name: str, arguments: tuple[Any, 
     if name == "drag":
         document.begin_preview()
         for x, y in arguments[0]:
-            try:
+            with contextlib.suppress(EditError):  # the drag shows the last layout that was valid
                 document.preview(edits.move_vertex(layout, "twy-2", 0, x, y))
-            except EditError:
-                pass  # the drag shows the last layout that was valid
         document.end_preview("Drag")
         model.push(document.layout, None)
         return
     try:
         if name == "nudge":
             element_id, vertex, x, y = arguments
-            after, key = edits.move_vertex(layout, element_id, vertex, x, y), move_vertex_merge_key(element_id, vertex)
+            after = edits.move_vertex(layout, element_id, vertex, x, y)
+            key = move_vertex_merge_key(element_id, vertex)
         else:
             after, key = EDITS[name][1](layout, *arguments), None
     except EditError:

@@ -58,6 +58,7 @@ def _item(text: str, movement_key: str | None = None) -> QtWidgets.QTableWidgetI
 class JunctionPanel(QtWidgets.QDockWidget):
     movement_selected = QtCore.Signal(object)   # MovementResult | None
     exclusion_toggled = QtCore.Signal(str, bool)  # movement key, excluded
+    radius_requested = QtCore.Signal(object)       # the selected turn (MovementResult)
 
     def __init__(self, parent: QtWidgets.QWidget | None = None) -> None:
         super().__init__("Junction inspector", parent)
@@ -88,8 +89,14 @@ class JunctionPanel(QtWidgets.QDockWidget):
             plot.getAxis("left").enableAutoSIPrefix(False)
             plot.getAxis("bottom").enableAutoSIPrefix(False)
         self.steering_plot.setLabel("left", "Steering (°)")
-        for widget, stretch in ((self.heading, 0), (self.movements, 3), (QtWidgets.QLabel("Fillets"), 0),
-                                (self.fillets, 1), (self.plot, 3)):
+        self.radius_button = QtWidgets.QPushButton("Set turn radius…")
+        self.radius_button.setToolTip("Set the centerline radius of the selected turn's corner (both "
+                                      "directions), or go back to the default radius")
+        self.radius_button.setEnabled(False)
+        self.radius_button.clicked.connect(lambda: self.radius_requested.emit(self._movement(self._selected_key())))
+        self.steering_plot.addLegend(offset=(-10, 10))
+        for widget, stretch in ((self.heading, 0), (self.movements, 3), (self.radius_button, 0),
+                                (QtWidgets.QLabel("Fillets"), 0), (self.fillets, 1), (self.plot, 3)):
             layout.addWidget(widget, stretch)
         self.setWidget(body)
         self._junction: JunctionResult | None = None
@@ -130,7 +137,7 @@ class JunctionPanel(QtWidgets.QDockWidget):
                 f"{_leg_end(junction.junction_id, movement.to_leg_id)}")
         texts = (name, f"{movement.turn_deg:+.1f}", _length(movement.radius_m, self._units),
                  _length(fillet.fillet_radius_m if fillet else None, self._units),
-                 _area(movement.required_area_m2, self._units),
+                 _area(movement.required_area_m2, self._units) if movement.kind == "turn" else "—",
                  f"{movement.max_steering_deg:.1f}" if math.isfinite(movement.max_steering_deg) else "—",
                  _length(movement.min_edge_margin_m, self._units),
                  movement.problem or "", "")
@@ -171,6 +178,7 @@ class JunctionPanel(QtWidgets.QDockWidget):
 
     def _on_row_selected(self) -> None:
         movement = self._movement(self._selected_key())
+        self.radius_button.setEnabled(movement is not None and movement.corner_key is not None)
         self._plot(movement)
         self.movement_selected.emit(movement)
 

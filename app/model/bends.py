@@ -1,0 +1,90 @@
+"""Bends: the corners of one centerline, analysed like junctions of two legs.
+
+An aircraft following a centerline through a corner sweeps the same way as at a junction: the
+cockpit stays on the arc (the vertex's corner radius, or the house default radius where the planner
+drew a sharp corner), the main gear cuts inside, and the inside of the bend needs a fillet. Each
+interior vertex that turns the line by at least a degree, away from any junction, becomes a
+``Junction`` of kind ``"bend"`` with two legs, so the junction analysis, the fillets and the checks
+treat it exactly like a junction. A vertex where the line doubles back is reported instead.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass
+
+from app.model.elements import Centerline
+from geometry.centerline import wrap_angle
+from geometry.movements import junction_corners
+from geometry.network import Junction, Leg
+
+BEND_MIN_DEFLECTION_RAD = math.radians(1.0)   # a gentler vertex is straight on (as at a junction)
+REVERSAL_DEFLECTION_RAD = math.radians(179.0)  # sharper than this, the line doubles back
+DUPLICATE_TOLERANCE_M = 1e-6
+
+
+@dataclass(frozen=True, slots=True)
+class Bend:
+    junction: Junction
+    corner_radius_m: float | None       # the planner's corner radius, used for the bend's turns
+    corner_key: str
+
+
+@dataclass(frozen=True, slots=True)
+class Reversal:
+    line_id: str
+    vertex_number: int                  # 1-based, as the planner counts vertices
+    point_m: tuple[float, float]
+
+
+def _distinct(line: Centerline) -> list[tuple[int, tuple[float, float], float | None]]:
+    kept: list[tuple[int, tuple[float, float], float | None]] = []
+    for index, vertex in enumerate(line.vertices):
+        if kept and math.dist(kept[-1][1], vertex.xy) <= DUPLICATE_TOLERANCE_M:
+            continue
+        kept.append((index, vertex.xy, vertex.corner_radius_m))
+    return kept
+
+
+def _tangent_m(radius_m: float | None, deflection_rad: float) -> float:
+    return 0.0 if not radius_m else radius_m * math.tan(abs(deflection_rad) / 2.0)
+
+
+def line_bends(line: Centerline, junction_points: Sequence[tuple[float, float]], snap_m: float
+               ) -> tuple[list[Bend], list[Reversal]]:
+    """The bends of ``line`` that lie farther than ``snap_m`` from every junction point."""
+    points = _distinct(line)
+    headings = [math.atan2(b[1][1] - a[1][1], b[1][0] - a[1][0]) for a, b in zip(points, points[1:])]
+    lengths = [math.dist(a[1], b[1]) for a, b in zip(points, points[1:])]
+    deflections = [0.0, *(wrap_angle(after - before) for before, after in zip(headings, headings[1:])), 0.0]
+    tangents = [_tangent_m(radius, deflection) for (_, _, radius), deflection in zip(points, deflections)]
+    bends, reversals = [], []
+    for k in range(1, len(points) - 1):
+        index, xy, radius = points[k]
+        if abs(deflections[k]) < BEND_MIN_DEFLECTION_RAD:
+            continue
+        if any(math.dist(xy, point) <= snap_m for point in junction_points):
+            continue
+        if abs(deflections[k]) > REVERSAL_DEFLECTION_RAD:
+            reversals.append(Reversal(line.id, index + 1, xy))
+            continue
+        junction_id = f"B:{line.id}#{index}"
+        back = Leg(f"{junction_id}|{line.id}-", line.id, line.kind, wrap_angle(headings[k - 1] + math.pi),
+                   lengths[k - 1], max(0.0, lengths[k - 1] - tangents[k - 1]), 0.0, -1)
+        ahead = Leg(f"{junction_id}|{line.id}+", line.id, line.kind, headings[k],
+                    lengths[k], max(0.0, lengths[k] - tangents[k + 1]), 0.0, 1)
+        junction = Junction(junction_id, xy, (back, ahead), "bend")
+        (corner,) = junction_corners(junction)
+        bends.append(Bend(junction, radius if radius else None, corner.key))
+    return bends, reversals
+
+
+def find_bends(lines: Iterable[Centerline], junction_points: Sequence[tuple[float, float]],
+               snap_m: float) -> tuple[list[Bend], list[Reversal]]:
+    bends, reversals = [], []
+    for line in lines:
+        found, doubled = line_bends(line, junction_points, snap_m)
+        bends.extend(found)
+        reversals.extend(doubled)
+    return bends, reversals

@@ -1,0 +1,42 @@
+"""E-OVERLAP: two centerlines that lie on each other.
+
+Two lines drawn over each other (a duplicate, or a stretch sketched twice) make no junction and
+no separation finding, yet the planner almost certainly did not mean them: report every pair
+whose centerlines run within OVERLAP_DISTANCE_M of each other for more than OVERLAP_LENGTH_M.
+"""
+
+from __future__ import annotations
+
+import shapely
+
+from geometry.checks.common import CheckContext
+from geometry.findings import Finding, Severity
+from geometry.units import from_metres
+
+OVERLAP_DISTANCE_M = 0.05   # closer than this is "on each other" (well inside any drawing precision)
+OVERLAP_LENGTH_M = 1.0      # shorter contacts are crossings and touching ends, not overlaps
+RULE = "centerlines drawn on each other"
+SOURCE = "identity (a line cannot carry two centerlines; common practice, no source)"
+
+
+def check_overlaps(context: CheckContext) -> list[Finding]:
+    infos = list(context.lines.values())
+    if len(infos) < 2:
+        return []
+    geometries = [context.geometry(info.line.id) for info in infos]
+    tree = shapely.STRtree(geometries)
+    findings = []
+    for first, second in zip(*tree.query(geometries, predicate="dwithin", distance=OVERLAP_DISTANCE_M)):
+        if first >= second:
+            continue
+        shared = geometries[first].intersection(geometries[second].buffer(OVERLAP_DISTANCE_M, cap_style="flat"))
+        if shared.is_empty or shared.length <= OVERLAP_LENGTH_M:
+            continue
+        a, b = infos[first], infos[second]
+        where = shared.interpolate(0.5, normalized=True)
+        findings.append(Finding(
+            "E-OVERLAP", Severity.ERROR,
+            f"{a.name} ({a.line.id}) and {b.name} ({b.line.id}) lie on each other over {shared.length:.1f} m "
+            f"({from_metres(shared.length, 'ft'):.1f} ft): delete one, or join them into one line.",
+            (a.line.id, b.line.id), (float(where.x), float(where.y)), RULE, SOURCE))
+    return findings
