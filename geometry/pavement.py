@@ -195,8 +195,11 @@ def straight_pavement(centerline: CenterlineLike, width_m: float) -> Polygonal:
     line = LineString(points)
     if line.length <= 0.0:
         raise GeometryError("a straight pavement needs a centerline of positive length")
-    return _as_polygonal(shapely.buffer(line, half_width_m, cap_style="flat", join_style="mitre",
-                                        mitre_limit=MITRE_LIMIT))
+    # GEOS divides by zero inside the mitre computation where a line exactly reverses; its result
+    # stays finite and valid, so the floating-point warning is noise (tests/robustness).
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return _as_polygonal(shapely.buffer(line, half_width_m, cap_style="flat", join_style="mitre",
+                                            mitre_limit=MITRE_LIMIT))
 
 
 def junction_required_area(movement_areas: Iterable[BaseGeometry],

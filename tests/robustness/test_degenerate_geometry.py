@@ -213,12 +213,11 @@ def test_a_corner_radius_no_aircraft_can_follow_is_flagged() -> None:
 
 
 # GEOS divides by zero when a mitred buffer meets an exact reversal of direction at this width (the
-# result stays finite and valid; reported to the owner of geometry/pavement.py, docs/robustness.md).
+# result stays finite and valid); geometry/pavement.py silences that warning, and this test keeps it so.
 REVERSAL_WARNINGS = ("ignore:divide by zero encountered in buffer:RuntimeWarning",
                      "ignore:invalid value encountered in buffer:RuntimeWarning")
 
 
-@pytest.mark.xfail(strict=True, raises=RuntimeWarning, reason="GEOS warning on an exact reversal")
 def test_an_exact_reversal_buffers_without_a_floating_point_warning() -> None:
     sketch = line("a", (0.0, -150.0), (60.3, 60.0000004), (0.0, -150.0))
     analysed(layout_of(sketch, rule_set="ICAO"))  # ICAO width for the default airplane: 23 m
