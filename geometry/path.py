@@ -85,9 +85,10 @@ class CenterlinePath:
     """Straights and arcs joined end to start with continuous heading."""
 
     segments: tuple[Segment, ...]
-    # Derived once from ``segments`` (not compared, not part of the constructor).
-    arrays: SegmentArrays = field(init=False, repr=False, compare=False)
+    # Derived from ``segments`` (not compared, not part of the constructor): the length at once,
+    # the arrays on first use (many paths are built and never evaluated).
     length_m: float = field(init=False, repr=False, compare=False)
+    _arrays: list[SegmentArrays] = field(init=False, repr=False, compare=False, default_factory=list)
 
     def __post_init__(self) -> None:
         if not self.segments:
@@ -102,8 +103,14 @@ class CenterlinePath:
             if abs(kink) > HEADING_TOLERANCE_RAD:
                 raise InvalidPathError(f"segment {index} is not tangent to segment {index - 1} "
                                        f"(kink of {math.degrees(kink):.4g} degrees)")
-        object.__setattr__(self, "arrays", _segment_arrays(self.segments))
         object.__setattr__(self, "length_m", float(sum(segment.length_m for segment in self.segments)))
+
+    @property
+    def arrays(self) -> SegmentArrays:
+        """Every segment's parameters as read-only arrays (built once, on first use)."""
+        if not self._arrays:
+            self._arrays.append(_segment_arrays(self.segments))
+        return self._arrays[0]
 
     @property
     def start(self) -> Point:

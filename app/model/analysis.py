@@ -100,6 +100,8 @@ class LayoutAnalyzer:
         return self.analyze(layout, with_findings=False)
 
     def analyze(self, layout: Layout, *, with_findings: bool = True) -> LayoutResult:
+        """The layout's results. ``with_findings=False`` is the live pass of a drag: no checks (the
+        last findings are kept) and no edge margins (NaN), so the pavement follows the pointer."""
         self._prune()
         context = context_for(layout)
         problem = rules_problem(context)
@@ -126,7 +128,8 @@ class LayoutAnalyzer:
         bends, reversals = find_bends(layout.centerlines, [j.point for j in network.junctions],
                                       network.snap_tolerance_m)
         findings.extend(_reversal_finding(reversal) for reversal in reversals)
-        junctions, problems = self._junction_results(layout, network, bends, context, widths, straights)
+        junctions, problems = self._junction_results(layout, network, bends, context, widths, straights,
+                                                     with_findings)
         for junction_id, texts in problems.items():
             point = junctions[junction_id].point_m
             findings.extend(Finding("W-FILLET-FORM", Severity.WARNING,
@@ -138,8 +141,8 @@ class LayoutAnalyzer:
                               with_findings, bends)
 
     def _junction_results(self, layout: Layout, network: JunctionNetwork, bends: list[Bend],
-                          context: DesignContext, widths: dict[str, float], straights: dict[str, BaseGeometry]
-                          ) -> tuple[dict[str, JunctionResult], dict[str, tuple[str, ...]]]:
+                          context: DesignContext, widths: dict[str, float], straights: dict[str, BaseGeometry],
+                          full: bool) -> tuple[dict[str, JunctionResult], dict[str, tuple[str, ...]]]:
         results: dict[str, JunctionResult] = {}
         problems: dict[str, tuple[str, ...]] = {}
         recomputed = 0
@@ -151,12 +154,15 @@ class LayoutAnalyzer:
             excluded = frozenset(k for k in layout.excluded_movements if k.startswith(prefix))
             own_overrides = tuple(sorted((k, v) for k, v in overrides.items() if k.startswith(prefix)))
             own_widths = tuple((line_id, widths[line_id]) for line_id in junction.line_ids)
-            key = (_junction_key(junction, context, dict(own_overrides)), context, own_widths, excluded, own_overrides)
-            found = self._junctions.get(key)
+            base = (_junction_key(junction, context, dict(own_overrides)), context, own_widths, excluded,
+                    own_overrides)
+            key = (*base, full)
+            # A full result serves the live pass as well; a live one (no margins) never serves a full pass.
+            found = self._junctions.get((*base, True)) or self._junctions.get(key)
             if found is None:
                 straight = shapely.union_all([straights[line_id] for line_id in junction.line_ids])
                 found = analyze_junction(JunctionInputs(junction, context, own_widths, straight, excluded,
-                                                        own_overrides))
+                                                        own_overrides, with_margins=full))
                 self._junctions[key] = found
                 recomputed += 1
             results[junction.id], problems[junction.id] = found

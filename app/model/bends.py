@@ -10,6 +10,7 @@ treat it exactly like a junction. A vertex where the line doubles back is report
 
 from __future__ import annotations
 
+import itertools
 import math
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
@@ -55,10 +56,11 @@ def line_bends(line: Centerline, junction_points: Sequence[tuple[float, float]],
                ) -> tuple[list[Bend], list[Reversal]]:
     """The bends of ``line`` that lie farther than ``snap_m`` from every junction point."""
     points = _distinct(line)
-    headings = [math.atan2(b[1][1] - a[1][1], b[1][0] - a[1][0]) for a, b in zip(points, points[1:])]
-    lengths = [math.dist(a[1], b[1]) for a, b in zip(points, points[1:])]
-    deflections = [0.0, *(wrap_angle(after - before) for before, after in zip(headings, headings[1:])), 0.0]
-    tangents = [_tangent_m(radius, deflection) for (_, _, radius), deflection in zip(points, deflections)]
+    headings = [math.atan2(b[1][1] - a[1][1], b[1][0] - a[1][0]) for a, b in itertools.pairwise(points)]
+    lengths = [math.dist(a[1], b[1]) for a, b in itertools.pairwise(points)]
+    deflections = [0.0, *(wrap_angle(after - before) for before, after in itertools.pairwise(headings)), 0.0]
+    tangents = [_tangent_m(radius, deflection)
+                for (_, _, radius), deflection in zip(points, deflections, strict=True)]
     bends, reversals = [], []
     for k in range(1, len(points) - 1):
         index, xy, radius = points[k]

@@ -44,9 +44,14 @@ class DesignContext:
     def radius_aircraft(self) -> tuple[DesignAircraft, ...]:
         """Whose steering limit sets default radii: the fleet and, under FAA rules, the theoretical
         airplane of the governing aircraft's TDG (the standard's design basis for turns)."""
-        if self.rule_set_name != "FAA":
-            return self.fleet
-        return (*self.fleet, theoretical_airplane(tdg_of_aircraft(self.governing)))
+        return _radius_aircraft(self)
+
+
+@lru_cache(maxsize=64)
+def _radius_aircraft(context: DesignContext) -> tuple[DesignAircraft, ...]:
+    if context.rule_set_name != "FAA":
+        return context.fleet
+    return (*context.fleet, theoretical_airplane(tdg_of_aircraft(context.governing)))
 
 
 def context_for(layout: Layout) -> DesignContext:
@@ -97,9 +102,16 @@ def default_radius_m(turn_rad: float, context: DesignContext) -> float:
     """The house default centerline radius (geometry/turns.py): steering-limited for the fleet's
     most demanding aircraft, and at least the design-speed radius under 90 degrees; rounded up."""
     turn_steps = math.ceil(abs(math.degrees(turn_rad)) / STEERING_ANGLE_STEP_DEG - 1e-9)
-    steering = max(_steering_radius_m(aircraft, turn_steps) for aircraft in context.radius_aircraft)
-    radius = default_turn_radius_m(turn_rad, steering, speed_radius_m(DESIGN_TAXI_SPEED_KMH))
+    radius = default_turn_radius_m(turn_rad, _fleet_steering_radius_m(turn_steps, context), SPEED_RADIUS_M)
     return math.ceil(radius / RADIUS_ROUNDING_M - 1e-9) * RADIUS_ROUNDING_M
+
+
+SPEED_RADIUS_M = speed_radius_m(DESIGN_TAXI_SPEED_KMH)
+
+
+@lru_cache(maxsize=4096)
+def _fleet_steering_radius_m(turn_steps: int, context: DesignContext) -> float:
+    return max(_steering_radius_m(aircraft, turn_steps) for aircraft in context.radius_aircraft)
 
 
 def rules_problem(context: DesignContext) -> str | None:

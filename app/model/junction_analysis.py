@@ -42,6 +42,7 @@ class JunctionInputs:
     straights: BaseGeometry                          # straight pavement of the junction's lines
     excluded: frozenset[str]
     overrides_m: tuple[tuple[str, float], ...]       # corner key -> radius
+    with_margins: bool = True                        # False for the live pass of a drag preview
 
 
 @dataclass(frozen=True, slots=True, eq=False)
@@ -162,16 +163,21 @@ def _nearby_edge(edge: BaseGeometry, points: np.ndarray) -> BaseGeometry:
     return shapely.clip_by_rect(edge, low[0], low[1], high[0], high[1])
 
 
-def _tracks(swept: SweptPath, pavement: BaseGeometry, edges: BaseGeometry,
+def _tracks(swept: SweptPath, pavement: BaseGeometry, edges: BaseGeometry | None,
             required_margin_m: float) -> AircraftTracks:
+    """The tracks to keep; without ``edges`` (the live pass) the margins are left unmeasured (NaN)."""
     kept = _plot_stations(swept.station_m)
     left_xy, right_xy = swept.gear_left_edge_xy[kept], swept.gear_right_edge_xy[kept]
-    nearby = _nearby_edge(edges, np.concatenate((left_xy, right_xy)))
-    left = _signed_margins(left_xy, pavement, nearby)
-    right = _signed_margins(right_xy, pavement, nearby)
+    if edges is None:
+        left = right = np.full(len(kept), np.nan)
+    else:
+        nearby = _nearby_edge(edges, np.concatenate((left_xy, right_xy)))
+        left = _signed_margins(left_xy, pavement, nearby)
+        right = _signed_margins(right_xy, pavement, nearby)
     margins = np.minimum(left, right)
     steering_deg = np.degrees(np.abs(swept.steering_rad))
-    peak, least = int(np.argmax(steering_deg)), int(np.argmin(margins))
+    peak = int(np.argmax(steering_deg))
+    least = int(np.argmin(margins)) if edges is not None else 0
     edge = left_xy if left[least] <= right[least] else right_xy
     return AircraftTracks(swept.aircraft.name, _simplified(swept.gear_left_edge_xy),
                           _simplified(swept.gear_right_edge_xy), _simplified(swept.main_gear_xy),
@@ -183,7 +189,7 @@ def _tracks(swept: SweptPath, pavement: BaseGeometry, edges: BaseGeometry,
 
 
 def _movement_result(one: _Computed, inputs: JunctionInputs, pavement: BaseGeometry,
-                     edges: BaseGeometry) -> MovementResult:
+                     edges: BaseGeometry | None) -> MovementResult:
     movement = one.movement
     rules = inputs.context.rule_set_name
     tracks = tuple(_tracks(swept, pavement, edges, edge_margin_m(swept.aircraft, rules)) for swept in one.swept)
@@ -239,7 +245,7 @@ def analyze_junction(inputs: JunctionInputs) -> tuple[JunctionResult, tuple[str,
     grown = [shapely.buffer(f.outline, WELD_M, join_style="mitre") for f in fillets]
     buildable = shapely.union_all([local_straights, *grown, *loose])
     shapely.prepare(buildable)
-    edges = shapely.simplify(buildable.boundary, MARGIN_EDGE_SIMPLIFY_M)
+    edges = shapely.simplify(buildable.boundary, MARGIN_EDGE_SIMPLIFY_M) if inputs.with_margins else None
     by_key = {one.movement.key: _movement_result(one, inputs, buildable, edges) for one in computed}
     all_results = tuple(by_key.get(m.key) or _straight_movement(m, inputs)
                         for m in junction_movements(junction))

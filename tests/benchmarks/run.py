@@ -52,7 +52,7 @@ class Plan:
     main_sample: bool  # False: the window figures use a small generated grid (a smoke run)
 
 
-FULL = Plan((10, 100, 1000), (5, 3, 1), 15, 3, 7, 3, True)
+FULL = Plan((10, 100, 1000), (5, 3, 1), 15, 1, 7, 3, True)
 QUICK = Plan((1, 2), (1, 1), 3, 1, 2, 1, False)
 
 
