@@ -132,7 +132,27 @@ def run_sweep(args: argparse.Namespace) -> int:
     return 0
 
 
+def display_problem(environ: dict[str, str] | None = None) -> str | None:
+    """Why a window cannot open here (one line for the planner), or None."""
+    import ctypes.util
+    import os
+
+    env = os.environ if environ is None else environ
+    if not sys.platform.startswith("linux") or env.get("QT_QPA_PLATFORM"):
+        return None
+    if not (env.get("DISPLAY") or env.get("WAYLAND_DISPLAY")):
+        return ("there is no display to open the window on (to run without one: QT_QPA_PLATFORM=offscreen "
+                "taxiwright open LAYOUT --screenshot OUT.png)")
+    if not env.get("WAYLAND_DISPLAY") and ctypes.util.find_library("xcb-cursor") is None:
+        return ("Qt needs the system library libxcb-cursor0 to open a window on X11; install it "
+                "(Debian/Ubuntu: sudo apt-get install libxcb-cursor0) and try again")
+    return None
+
+
 def run_open(args: argparse.Namespace) -> int:
+    problem = display_problem()
+    if problem is not None:
+        return fail(problem)
     from app.model.analysis import LayoutAnalyzer
     from app.ui.launch import run
 
