@@ -21,9 +21,9 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import lru_cache
 
 import numpy as np
-import numpy.typing as npt
 
 from geometry.aircraft import DesignAircraft
 from geometry.errors import (
@@ -36,6 +36,7 @@ from geometry.errors import (
 from geometry.offsets import lateral_offset_m
 from geometry.path import CenterlinePath, standard_turn_path
 from geometry.primitives import Arc, FloatArray
+from geometry.sweep_pieces import Pieces, at_stations, chain_pieces, sample_stations, stations_on_pieces
 
 DEFAULT_CHORD_TOLERANCE_M = 0.003  # a track polyline stays within 3 mm of the exact curve
 MIN_CHORD_TOLERANCE_M = 1e-6  # finer tolerances only multiply stations without meaning
@@ -96,42 +97,6 @@ class SweptPath:
         return float(np.max(np.abs(self.gear_offset_m)))
 
 
-@dataclass(frozen=True, slots=True, eq=False)
-class _Pieces:
-    """The closed form chained along the path: each piece has constant curvature. Besides each
-    piece's start, length, curvature and end angles it keeps the per-piece constants of the flow
-    (m2, sqrt|m2| and its inverse) and of the half-angle formula, so stations only gather them."""
-
-    start_m: FloatArray
-    length_m: FloatArray
-    curvature_per_m: FloatArray
-    start_alpha_rad: FloatArray
-    end_alpha_rad: FloatArray
-    cmg_m: float
-    path_length_m: float
-    m2: FloatArray               # (1/d^2 - kappa^2) / 4
-    root_m2: FloatArray          # sqrt(|m2|)
-    inverse_root_m2: FloatArray  # 1 / sqrt(|m2|), 0 where m2 == 0 (that case uses g = s)
-    rate_half: FloatArray        # (kappa - sin(alpha0) / d) / 2
-    cos_half: FloatArray         # cos(alpha0) / (2 d)
-
-    @staticmethod
-    def build(start_m: FloatArray, length_m: FloatArray, curvature_per_m: FloatArray,
-              alphas_rad: FloatArray, cmg_m: float, path_length_m: float) -> _Pieces:
-        start_alpha = alphas_rad[:-1]
-        inverse_d = 1.0 / cmg_m
-        kappa = np.abs(curvature_per_m)
-        m2 = (inverse_d - kappa) * (inverse_d + kappa) / 4.0  # factored: R == d gives exactly zero
-        root = np.sqrt(np.abs(m2))
-        inverse_root = np.divide(1.0, root, out=np.zeros_like(root), where=root > 0.0)
-        rate_half = (curvature_per_m - np.sin(start_alpha) / cmg_m) / 2.0
-        return _Pieces(start_m, length_m, curvature_per_m, start_alpha, alphas_rad[1:], cmg_m, path_length_m,
-                       m2, root, inverse_root, rate_half, np.cos(start_alpha) / (2.0 * cmg_m))
-
-    def all_alphas_rad(self) -> FloatArray:
-        return np.append(self.start_alpha_rad, self.end_alpha_rad[-1])
-
-
 def sweep(path: CenterlinePath, aircraft: DesignAircraft, *,
           chord_tolerance_m: float = DEFAULT_CHORD_TOLERANCE_M,
           initial_body_angle_rad: float = 0.0) -> SweptPath:
@@ -161,8 +126,8 @@ def sweep(path: CenterlinePath, aircraft: DesignAircraft, *,
     """
     _check_chord_tolerance(chord_tolerance_m)
     pieces = _chain_pieces(path, aircraft, initial_body_angle_rad)
-    station_m, which, local_m = _sample_stations(pieces, _body_points(aircraft), chord_tolerance_m)
-    return _swept_path(path, aircraft, station_m, _alpha_at(pieces, which, local_m))
+    station_m, which, local_m = sample_stations(pieces, _body_points(aircraft)[1], chord_tolerance_m)
+    return _swept_path(path, aircraft, station_m, *at_stations(pieces, which, local_m))
 
 
 def sweep_at_stations(path: CenterlinePath, aircraft: DesignAircraft, station_m: FloatArray, *,
@@ -176,10 +141,8 @@ def sweep_at_stations(path: CenterlinePath, aircraft: DesignAircraft, station_m:
     if stations.min() < 0.0 or stations.max() > path.length_m:
         raise GeometryError(f"stations must lie between 0 and the path length {path.length_m:.3f} m")
     pieces = _chain_pieces(path, aircraft, initial_body_angle_rad)
-    which = np.searchsorted(pieces.start_m, stations, side="right") - 1
-    np.clip(which, 0, len(pieces.start_m) - 1, out=which)
-    local_m = np.clip(stations - pieces.start_m[which], 0.0, pieces.length_m[which])
-    return _swept_path(path, aircraft, stations, _alpha_at(pieces, which, local_m))
+    which, local_m = stations_on_pieces(pieces, stations)
+    return _swept_path(path, aircraft, stations, *at_stations(pieces, which, local_m))
 
 
 def steering_angle_rad(aircraft: DesignAircraft, body_angle_rad: FloatArray) -> FloatArray:
@@ -231,7 +194,7 @@ def _peak_steering_rad(aircraft: DesignAircraft, radius_m: float, turn_rad: floa
     except RadiusTooSmallError:
         return _HALF_PI
     # alpha is monotone on each piece, so its extreme lies on a piece boundary.
-    peak_alpha = float(np.max(np.abs(pieces.all_alphas_rad())))
+    peak_alpha = max(abs(alpha) for alpha in pieces.alphas_rad)
     return float(steering_angle_rad(aircraft, np.array([peak_alpha]))[0])
 
 
@@ -251,81 +214,10 @@ def _check_initial_body_angle(alpha_rad: float) -> None:
                                        f"degrees, got {math.degrees(alpha_rad):.1f} degrees")
 
 
-def _piece_limit_m(curvature_per_m: float, cmg_m: float) -> float:
-    """Longest piece: keeps c, g of order one and the change of alpha below one radian."""
-    if abs(curvature_per_m) * cmg_m <= 1.0:
-        return 2.0 * cmg_m
-    return cmg_m / (1.0 + abs(curvature_per_m) * cmg_m)
-
-
-def _flow_scalar(m2: float, s_m: float) -> tuple[float, float]:
-    """c(s), g(s) of exp(A s) = c I + g A, where A^2 = m2 I (scalar version)."""
-    root = math.sqrt(abs(m2)) * s_m
-    if root == 0.0:
-        return 1.0, s_m
-    if m2 > 0.0:
-        return math.cosh(root), s_m * math.sinh(root) / root
-    return math.cos(root), s_m * math.sin(root) / root
-
-
-def _alpha_after_scalar(alpha0_rad: float, curvature_per_m: float, cmg_m: float, s_m: float) -> float:
-    inverse_d, kappa = 1.0 / cmg_m, abs(curvature_per_m)
-    c, g = _flow_scalar((inverse_d - kappa) * (inverse_d + kappa) / 4.0, s_m)  # m2, as in _Pieces.build
-    return alpha0_rad + 2.0 * math.atan2(g * (curvature_per_m - math.sin(alpha0_rad) / cmg_m) / 2.0,
-                                         c + g * math.cos(alpha0_rad) / (2.0 * cmg_m))
-
-
-def _flow(pieces: _Pieces, which: npt.NDArray[np.intp], local_m: FloatArray) -> tuple[FloatArray, FloatArray]:
-    """c, g of exp(A s) = c I + g A (A^2 = m2 I) at each station, from its piece and local distance.
-
-    g = sinh(k s)/k (m2 = k^2 > 0), sin(k s)/k (m2 = -k^2 < 0) or s (m2 = 0): written with 1/k
-    per piece, so there is no 0/0 at a piece start. Each family is evaluated only if some piece
-    needs it (on most paths every piece is hyperbolic: straights, and arcs wider than d).
-    """
-    m2 = pieces.m2[which]
-    root = pieces.root_m2[which] * local_m
-    hyperbolic, circular = m2 > 0.0, m2 < 0.0
-    c = np.ones_like(local_m)
-    g = local_m.copy()  # the m2 == 0 case
-    inverse_root = pieces.inverse_root_m2[which]
-    for family, (cos_like, sin_like) in ((hyperbolic, (np.cosh, np.sinh)), (circular, (np.cos, np.sin))):
-        if family.all():
-            return cos_like(root), sin_like(root) * inverse_root
-        if family.any():
-            np.copyto(c, cos_like(root), where=family)
-            np.copyto(g, sin_like(root) * inverse_root, where=family)
-    return c, g
-
-
-def _alpha_at(pieces: _Pieces, which: npt.NDArray[np.intp], local_m: FloatArray) -> FloatArray:
-    """Body angle at stations given by their piece and distance into it, from the closed form."""
-    c, g = _flow(pieces, which, local_m)
-    # Denominator > 0 on every piece (c > 0, g >= 0, |alpha0| < pi/2): atan2 stays unambiguous.
-    half_turn = np.arctan2(g * pieces.rate_half[which], c + g * pieces.cos_half[which])
-    return np.asarray(pieces.start_alpha_rad[which] + 2.0 * half_turn, dtype=float)
-
-
-def _chain_pieces(path: CenterlinePath, aircraft: DesignAircraft, alpha0_rad: float) -> _Pieces:
-    """Cut the path into pieces and carry alpha from each piece's start to its end."""
+def _chain_pieces(path: CenterlinePath, aircraft: DesignAircraft, alpha0_rad: float) -> Pieces:
     _check_initial_body_angle(alpha0_rad)
-    d = aircraft.cmg_m
-    starts: list[float] = []
-    lengths: list[float] = []
-    curvatures: list[float] = []
-    alphas = [alpha0_rad]
-    for segment, segment_start_m in zip(path.segments, path.arrays.starts_m.tolist(), strict=True):
-        kappa = segment.curvature_per_m
-        count = max(1, math.ceil(segment.length_m / _piece_limit_m(kappa, d)))
-        piece_m = segment.length_m / count
-        for index in range(count):
-            starts.append(segment_start_m + index * piece_m)
-            lengths.append(piece_m)
-            curvatures.append(kappa)
-            alphas.append(_alpha_after_scalar(alphas[-1], kappa, d, piece_m))
-            if abs(alphas[-1]) >= _HALF_PI:
-                raise _gear_rolls_backwards(aircraft, segment)
-    return _Pieces.build(np.array(starts), np.array(lengths), np.array(curvatures), np.array(alphas), d,
-                         path.length_m)
+    return chain_pieces(path, aircraft.cmg_m, alpha0_rad,
+                        lambda segment: _gear_rolls_backwards(aircraft, segment))
 
 
 def _gear_rolls_backwards(aircraft: DesignAircraft, segment: object) -> RadiusTooSmallError:
@@ -336,13 +228,17 @@ def _gear_rolls_backwards(aircraft: DesignAircraft, segment: object) -> RadiusTo
         f"or a smaller turn angle.")
 
 
-def _body_points(aircraft: DesignAircraft) -> FloatArray:
+@lru_cache(maxsize=256)
+def _body_points(aircraft: DesignAircraft) -> tuple[FloatArray, float]:
     """Body-frame (forward, left) positions of every tracked point, from the main-gear centre, in
-    the order of :data:`_TRACKS` (the three whose offsets are measured come first)."""
+    the order of :data:`_TRACKS` then the cockpit; and their reach, the largest |forward| + |left|
+    (what bounds the tracks' curvature, geometry.sweep_pieces). Read-only, kept per aircraft."""
     half_gear, half_span = aircraft.mgw_m / 2.0, aircraft.wingspan_m / 2.0
-    return np.array([[0.0, 0.0], [0.0, half_gear], [0.0, -half_gear], [aircraft.wheelbase_m, 0.0],
-                     [aircraft.nose_x_m, 0.0], [aircraft.tail_x_m, 0.0], [aircraft.wingtip_x_m, half_span],
-                     [aircraft.wingtip_x_m, -half_span], [aircraft.cmg_m, 0.0]])
+    points = np.array([[0.0, 0.0], [0.0, half_gear], [0.0, -half_gear], [aircraft.wheelbase_m, 0.0],
+                       [aircraft.nose_x_m, 0.0], [aircraft.tail_x_m, 0.0], [aircraft.wingtip_x_m, half_span],
+                       [aircraft.wingtip_x_m, -half_span], [aircraft.cmg_m, 0.0]])
+    points.flags.writeable = False
+    return points, float(np.max(np.abs(points).sum(axis=1)))
 
 
 # The tracks built from body points, in _body_points order; the cockpit (last body point) is not
@@ -352,42 +248,8 @@ _TRACKS = ("main_gear_xy", "gear_left_edge_xy", "gear_right_edge_xy", "nose_gear
 _OFFSET_TRACKS = 3  # main gear centre and the two outer tyre edges
 
 
-def _track_acceleration_bound(pieces: _Pieces, body_points: FloatArray) -> FloatArray:
-    """Per piece, an upper bound of |d^2 P/ds^2| over all tracked points P = M + a e + b n.
-
-    P'' = (-sin(alpha) alpha' - b w') e - a w^2 e + ((cos(alpha) - b w) w + a w') n, with
-    w = sin(alpha)/d and w' = cos(alpha) alpha'/d. alpha is monotone on a piece and within
-    (-pi/2, pi/2), so |alpha'| <= r = max |kappa - sin(alpha)/d| and |w| <= t = max |sin(alpha)|/d
-    over its ends. Term by term, |P''| <= r (1 + (|a| + |b|)/d) + t (1 + |b| t) + |a| t^2
-    = r + t + (|a| + |b|) (r/d + t^2): the largest |a| + |b| of the body points bounds them all.
-    """
-    d = pieces.cmg_m
-    sin_start, sin_end = np.sin(pieces.start_alpha_rad), np.sin(pieces.end_alpha_rad)
-    kappa = pieces.curvature_per_m
-    rate = np.maximum(np.abs(kappa - sin_start / d), np.abs(kappa - sin_end / d))
-    turn_rate = np.maximum(np.abs(sin_start), np.abs(sin_end)) / d
-    reach_m = float(np.max(np.abs(body_points).sum(axis=1)))
-    return np.asarray(rate + turn_rate + reach_m * (rate / d + turn_rate * turn_rate), dtype=float)
-
-
-def _sample_stations(pieces: _Pieces, body_points: FloatArray, chord_tolerance_m: float
-                     ) -> tuple[FloatArray, npt.NDArray[np.intp], FloatArray]:
-    """Stations: every piece start, then steps with sagitta step^2 * bound / 8 <= tolerance; with
-    each station's piece and its distance into that piece (the path end closes the last piece)."""
-    bound = _track_acceleration_bound(pieces, body_points)
-    counts = np.maximum(1, np.ceil(pieces.length_m * np.sqrt(bound / (8.0 * chord_tolerance_m)))).astype(int)
-    which = np.repeat(np.arange(len(counts)), counts)
-    first_of_piece = np.repeat(np.cumsum(counts) - counts, counts)
-    fraction = (np.arange(counts.sum()) - first_of_piece) / counts[which]
-    local_m = fraction * pieces.length_m[which]
-    stations = np.append(pieces.start_m[which] + local_m, pieces.path_length_m)
-    last = len(counts) - 1
-    return stations, np.append(which, last), np.append(local_m, pieces.length_m[last])
-
-
-def _swept_path(path: CenterlinePath, aircraft: DesignAircraft, station_m: FloatArray,
-                alpha_rad: FloatArray) -> SweptPath:
-    cockpit_xy, tangent_heading_rad, _ = path.evaluate(station_m)
+def _swept_path(path: CenterlinePath, aircraft: DesignAircraft, station_m: FloatArray, alpha_rad: FloatArray,
+                cockpit_xy: FloatArray, tangent_heading_rad: FloatArray) -> SweptPath:
     body_heading_rad = tangent_heading_rad - alpha_rad
     count = len(station_m)
     # The body frame at every station: basis[0] forward (cos, sin), basis[1] left (-sin, cos).
@@ -399,7 +261,7 @@ def _swept_path(path: CenterlinePath, aircraft: DesignAircraft, station_m: Float
     main_gear_xy = cockpit_xy - aircraft.cmg_m * basis[0]
     # Every tracked point at once, one small matrix product: (tracks, stations, 2), each track a
     # contiguous slice.
-    tracks = (_body_points(aircraft)[:-1] @ basis.reshape(2, -1)).reshape(-1, count, 2)
+    tracks = (_body_points(aircraft)[0][:-1] @ basis.reshape(2, -1)).reshape(-1, count, 2)
     tracks += main_gear_xy
     tracks[0] = main_gear_xy
     offsets = lateral_offset_m(path, tracks[:_OFFSET_TRACKS].reshape(-1, 2), extend_ends=True)

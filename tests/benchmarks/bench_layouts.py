@@ -5,16 +5,19 @@ object. In order: a warm-up analysis of a one-crossing grid (imports and the per
 radii, which every later analysis reuses, are paid there), ``--full-repeats`` full recomputations
 of the SIZE-crossing grid with a fresh ``LayoutAnalyzer`` each, the peak resident memory after
 them, a drag of ``--frames`` frames with the last (warm) analyzer, each frame timed from
-``move_vertex`` to the returned result, and with ``--dxf`` the DXF export of the full result.
+``move_vertex`` to the returned result (the full pass, then the live pass the window runs during
+a drag), and with ``--dxf-repeats`` the DXF export of the full result.
 """
 
 from __future__ import annotations
 
 import argparse
 import json
+import math
 import statistics
 import sys
 import tempfile
+from dataclasses import replace
 from pathlib import Path
 
 from app.model import edits
@@ -43,20 +46,25 @@ def _full(layout: Layout, repeats: int) -> tuple[dict[str, object], LayoutAnalyz
     return figures, analyzer, result
 
 
-def _drag(layout: Layout, size: int, analyzer: LayoutAnalyzer, frames: int) -> dict[str, object]:
+def _drag(layout: Layout, size: int, analyzer: LayoutAnalyzer, frames: int, *, live: bool = False,
+          prefix: str = "incremental") -> dict[str, object]:
+    """Frames of a drag, each from ``move_vertex`` to the returned result. ``live``: the pass the
+    window runs while a drag previews (``analyze_live``: no design checks), dragged the other way
+    so that no frame is answered from the cache of the full pass."""
     target = drag_target(size)
+    if live:
+        target = replace(target, heading_rad=target.heading_rad + math.pi)
     walls, cpus, recomputed = [], [], []
     for x_m, y_m in drag_positions_m(target, frames):
         def frame(x_m: float = x_m, y_m: float = y_m) -> LayoutResult:
             moved = edits.move_vertex(layout, target.centerline_id, target.vertex_index, x_m, y_m)
-            return analyzer.analyze(moved)
+            return analyzer.analyze_live(moved) if live else analyzer.analyze(moved)
         wall, cpu, _ = wall_and_cpu(frame)
         walls.append(1e3 * wall)
         cpus.append(1e3 * cpu)
         recomputed.append(analyzer.last_recomputed_junctions)
-    return {"incremental_ms": walls, "incremental_cpu_ms": cpus,
-            "incremental_median_ms": statistics.median(walls),
-            "incremental_cpu_median_ms": statistics.median(cpus), "recomputed_junctions": recomputed}
+    return {f"{prefix}_ms": walls, f"{prefix}_cpu_ms": cpus, f"{prefix}_median_ms": statistics.median(walls),
+            f"{prefix}_cpu_median_ms": statistics.median(cpus), f"{prefix}_recomputed_junctions": recomputed}
 
 
 def _dxf(layout: Layout, result: LayoutResult, repeats: int) -> dict[str, object]:
@@ -79,6 +87,8 @@ def measure(size: int, full_repeats: int, frames: int, dxf_repeats: int) -> dict
     figures.update(full)
     figures["peak_rss_mb"] = peak_rss_mb()
     figures.update(_drag(layout, size, analyzer, frames))
+    if hasattr(analyzer, "analyze_live"):
+        figures.update(_drag(layout, size, analyzer, frames, live=True, prefix="live_drag"))
     if dxf_repeats > 0:
         figures.update(_dxf(layout, result, dxf_repeats))
     return figures

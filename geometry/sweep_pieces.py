@@ -1,0 +1,188 @@
+"""The swept-path closed form chained along a path piece by piece, and the sweep's stations.
+
+Internal to :mod:`geometry.sweep` (its module docstring states the model and the closed form).
+A path is cut into pieces of constant curvature, short enough that the flow coefficients stay of
+order one and alpha moves by less than a radian per piece. Everything per piece (a handful of
+pieces per path) is plain Python floats; everything per station is a few whole-array numpy
+operations, so a sweep costs a fixed number of numpy calls however many stations it has.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable
+from dataclasses import dataclass
+
+import numpy as np
+import numpy.typing as npt
+
+from geometry.path import CenterlinePath
+from geometry.primitives import FloatArray, Segment, Straight
+
+HALF_PI = math.pi / 2.0
+IntArray = npt.NDArray[np.intp]
+
+
+@dataclass(frozen=True, slots=True, eq=False)
+class Pieces:
+    """Pieces of constant curvature and the body angle alpha at each piece boundary.
+
+    ``table`` holds, per piece, what a station needs (one row each): the closed form's constants
+    (start alpha, m2 = (1/d^2 - kappa^2)/4, k = sqrt|m2|, 1/k (0 where m2 == 0),
+    (kappa - sin(alpha0)/d)/2, cos(alpha0)/(2 d)) and the cockpit's start (x, y, heading) and
+    the curvature, from which the cockpit anywhere on the piece follows exactly (the chord of an
+    arc, or a straight).
+    """
+
+    starts_m: list[float]
+    lengths_m: list[float]
+    curvatures_per_m: list[float]
+    alphas_rad: list[float]  # one more than pieces: every piece boundary, in order
+    cmg_m: float
+    path_length_m: float
+    table: FloatArray        # shape (10, pieces)
+    all_hyperbolic: bool     # m2 > 0 on every piece (straights, arcs wider than d): the usual case
+
+
+def piece_limit_m(curvature_per_m: float, cmg_m: float) -> float:
+    """Longest piece: keeps c, g of order one and the change of alpha below one radian."""
+    if abs(curvature_per_m) * cmg_m <= 1.0:
+        return 2.0 * cmg_m
+    return cmg_m / (1.0 + abs(curvature_per_m) * cmg_m)
+
+
+def _piece_constants(kappa: float, alpha0_rad: float, d: float) -> tuple[float, ...]:
+    inverse_d, kappa_abs = 1.0 / d, abs(kappa)
+    m2 = (inverse_d - kappa_abs) * (inverse_d + kappa_abs) / 4.0  # factored: R == d gives exactly zero
+    root = math.sqrt(abs(m2))
+    return (alpha0_rad, m2, root, 1.0 / root if root > 0.0 else 0.0,
+            (kappa - math.sin(alpha0_rad) / d) / 2.0, math.cos(alpha0_rad) / (2.0 * d))
+
+
+def _alpha_after(constants: tuple[float, ...], s_m: float) -> float:
+    """alpha at distance ``s_m`` into a piece: exp(A s) = c I + g A applied to the half angle."""
+    alpha0, m2, root, inverse_root, rate_half, cos_half = constants[:6]
+    if m2 > 0.0:
+        c, g = math.cosh(root * s_m), math.sinh(root * s_m) * inverse_root
+    elif m2 < 0.0:
+        c, g = math.cos(root * s_m), math.sin(root * s_m) * inverse_root
+    else:
+        c, g = 1.0, s_m
+    return alpha0 + 2.0 * math.atan2(g * rate_half, c + g * cos_half)
+
+
+def _piece_start(segment: Segment, local_m: float) -> tuple[float, float, float]:
+    """Point and heading at ``local_m`` into a segment, by the segment's own formulas."""
+    if isinstance(segment, Straight):
+        return (segment.start[0] + local_m * math.cos(segment.heading_rad),
+                segment.start[1] + local_m * math.sin(segment.heading_rad), segment.heading_rad)
+    heading = segment.start_heading_rad + local_m * segment.curvature_per_m
+    polar = heading - segment.side * math.pi / 2.0
+    cx, cy = segment.center
+    return cx + segment.radius_m * math.cos(polar), cy + segment.radius_m * math.sin(polar), heading
+
+
+def chain_pieces(path: CenterlinePath, cmg_m: float, alpha0_rad: float,
+                 rolls_backwards: Callable[[Segment], Exception]) -> Pieces:
+    """Cut the path into pieces and carry alpha from each piece's start to its end; raise
+    ``rolls_backwards(segment)`` where alpha reaches 90 degrees."""
+    starts: list[float] = []
+    lengths: list[float] = []
+    curvatures: list[float] = []
+    rows: list[tuple[float, ...]] = []
+    alphas = [alpha0_rad]
+    for segment, segment_start_m in zip(path.segments, path.arrays.starts_m.tolist(), strict=True):
+        kappa = segment.curvature_per_m
+        count = max(1, math.ceil(segment.length_m / piece_limit_m(kappa, cmg_m)))
+        piece_m = segment.length_m / count
+        for index in range(count):
+            starts.append(segment_start_m + index * piece_m)
+            lengths.append(piece_m)
+            curvatures.append(kappa)
+            constants = _piece_constants(kappa, alphas[-1], cmg_m)
+            rows.append((*constants, *_piece_start(segment, index * piece_m), kappa))
+            alphas.append(_alpha_after(constants, piece_m))
+            if abs(alphas[-1]) >= HALF_PI:
+                raise rolls_backwards(segment)
+    table = np.array(rows, dtype=float).T.copy()
+    return Pieces(starts, lengths, curvatures, alphas, cmg_m, path.length_m, table,
+                  all(row[1] > 0.0 for row in rows))
+
+
+def _piece_counts(pieces: Pieces, reach_m: float, chord_tolerance_m: float) -> list[int]:
+    """Steps per piece, so that step^2 * bound / 8 <= tolerance (the sagitta of a chord).
+
+    ``bound`` bounds |d^2 P/ds^2| over every tracked point P = M + a e + b n on the piece:
+    P'' = (-sin(alpha) alpha' - b w') e - a w^2 e + ((cos(alpha) - b w) w + a w') n, with
+    w = sin(alpha)/d and w' = cos(alpha) alpha'/d. alpha is monotone on a piece and within
+    (-pi/2, pi/2), so |alpha'| <= r = max |kappa - sin(alpha)/d| and |w| <= t = max |sin(alpha)|/d
+    over its ends. Term by term, |P''| <= r (1 + (|a| + |b|)/d) + t (1 + |b| t) + |a| t^2
+    <= r + t + reach (r/d + t^2), reach the largest |a| + |b| of the tracked points.
+    """
+    d = pieces.cmg_m
+    counts = []
+    for kappa, length_m, alpha0, alpha1 in zip(pieces.curvatures_per_m, pieces.lengths_m, pieces.alphas_rad,
+                                               pieces.alphas_rad[1:], strict=False):
+        sin0, sin1 = math.sin(alpha0), math.sin(alpha1)
+        rate = max(abs(kappa - sin0 / d), abs(kappa - sin1 / d))
+        turn = max(abs(sin0), abs(sin1)) / d
+        bound = rate + turn + reach_m * (rate / d + turn * turn)
+        counts.append(max(1, math.ceil(length_m * math.sqrt(bound / (8.0 * chord_tolerance_m)))))
+    return counts
+
+
+def sample_stations(pieces: Pieces, reach_m: float, chord_tolerance_m: float
+                    ) -> tuple[FloatArray, IntArray, FloatArray]:
+    """Stations: every piece start, evenly stepped pieces, and the path end; with each station's
+    piece and its distance into that piece (the path end closes the last piece)."""
+    counts = _piece_counts(pieces, reach_m, chord_tolerance_m)
+    firsts = [0]
+    for count in counts[:-1]:
+        firsts.append(firsts[-1] + count)
+    steps = [length / count for length, count in zip(pieces.lengths_m, counts, strict=True)]
+    counts[-1] += 1  # the path end: one step past the last piece's last station
+    which = np.repeat(np.arange(len(counts)), counts)
+    local_m = (np.arange(len(which)) - np.repeat(firsts, counts)) * np.repeat(steps, counts)
+    stations = np.repeat(pieces.starts_m, counts) + local_m
+    stations[-1] = pieces.path_length_m
+    return stations, which, local_m
+
+
+def stations_on_pieces(pieces: Pieces, station_m: FloatArray) -> tuple[IntArray, FloatArray]:
+    """Each station's piece (a piece start belongs to that piece) and its distance into it."""
+    starts, lengths = np.array(pieces.starts_m), np.array(pieces.lengths_m)
+    which = np.searchsorted(starts, station_m, side="right") - 1
+    np.clip(which, 0, len(starts) - 1, out=which)
+    return which, np.clip(station_m - starts[which], 0.0, lengths[which])
+
+
+def at_stations(pieces: Pieces, which: IntArray,
+                local_m: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
+    """Body angle alpha, cockpit point (n, 2) and path heading at stations given by their piece
+    and distance into it, from the closed form and the piece's start.
+
+    g = sinh(k s)/k (m2 = k^2 > 0), sin(k s)/k (m2 = -k^2 < 0) or s (m2 = 0): written with 1/k
+    per piece, so there is no 0/0 at a piece start. The cockpit moves by the chord of its piece:
+    length s sin(kappa s/2)/(kappa s/2) along the heading at mid-piece, h0 + kappa s/2 (s when
+    kappa = 0).
+    """
+    gathered = np.take(pieces.table, which, axis=1)
+    alpha0, m2, root, inverse_root, rate_half, cos_half, x0, y0, h0, kappa = gathered
+    angle = root * local_m
+    if pieces.all_hyperbolic:
+        c, g = np.cosh(angle), np.sinh(angle) * inverse_root
+    else:
+        c, g = np.ones_like(local_m), local_m.copy()  # the m2 == 0 case
+        for family, cos_like, sin_like in ((m2 > 0.0, np.cosh, np.sinh), (m2 < 0.0, np.cos, np.sin)):
+            np.copyto(c, cos_like(angle), where=family)
+            np.copyto(g, sin_like(angle) * inverse_root, where=family)
+    # Denominator > 0 on every piece (c > 0, g >= 0, |alpha0| < pi/2): atan2 stays unambiguous.
+    alpha = alpha0 + 2.0 * np.arctan2(g * rate_half, c + g * cos_half)
+    half_turn = 0.5 * kappa * local_m
+    chord = np.divide(np.sin(half_turn), half_turn, out=np.ones_like(half_turn), where=half_turn != 0.0)
+    chord *= local_m
+    cockpit = np.empty((len(local_m), 2))
+    mid_heading = h0 + half_turn
+    np.add(x0, chord * np.cos(mid_heading), out=cockpit[:, 0])
+    np.add(y0, chord * np.sin(mid_heading), out=cockpit[:, 1])
+    return np.asarray(alpha, dtype=float), cockpit, np.asarray(mid_heading + half_turn, dtype=float)
