@@ -63,6 +63,7 @@ class LayoutAnalyzer:
         self._junctions: dict[tuple[object, ...], tuple[JunctionResult, tuple[str, ...]]] = {}
         self._network: JunctionNetwork | None = None
         self._last_findings: tuple[Finding, ...] | None = None
+        self._key_memo: dict[tuple[object, ...], tuple[Junction, tuple[object, ...]]] = {}
         self.last_recomputed_junctions = 0
 
     # -- lines -----------------------------------------------------------------------------
@@ -88,8 +89,18 @@ class LayoutAnalyzer:
             found = self._polylines[segments] = flatten(segments, DRAWING_CHORD_TOLERANCE_M)  # type: ignore[index]
         return found
 
+    def _key_of(self, junction: Junction, context: DesignContext,
+                overrides: tuple[tuple[str, float], ...]) -> tuple[object, ...]:
+        """:func:`_junction_key`, remembered per junction object: the network hands back the very
+        same object for every junction a drag did not touch."""
+        memo_key = (id(junction), context, overrides)
+        found = self._key_memo.get(memo_key)
+        if found is None or found[0] is not junction:
+            found = self._key_memo[memo_key] = (junction, _junction_key(junction, context, dict(overrides)))
+        return found[1]
+
     def _prune(self, limit: int = 20000) -> None:
-        for cache in (self._geometry, self._straights, self._polylines, self._junctions):
+        for cache in (self._geometry, self._straights, self._polylines, self._junctions, self._key_memo):
             if len(cache) > limit:
                 cache.clear()
 
@@ -154,7 +165,7 @@ class LayoutAnalyzer:
             excluded = frozenset(k for k in layout.excluded_movements if k.startswith(prefix))
             own_overrides = tuple(sorted((k, v) for k, v in overrides.items() if k.startswith(prefix)))
             own_widths = tuple((line_id, widths[line_id]) for line_id in junction.line_ids)
-            base = (_junction_key(junction, context, dict(own_overrides)), context, own_widths, excluded,
+            base = (self._key_of(junction, context, own_overrides), context, own_widths, excluded,
                     own_overrides)
             key = (*base, full)
             # A full result serves the live pass as well; a live one (no margins) never serves a full pass.
