@@ -6,6 +6,7 @@ Every command reports bad input as one line on stderr with exit status 2, never 
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 from collections.abc import Sequence
 
@@ -72,7 +73,11 @@ def main(argv: Sequence[str] | None = None) -> int:
     if args.command == "open":
         return run_open(args)
     runner = {"sweep": run_sweep, "check": run_check, "export": run_export}[args.command]
-    return runner(args)
+    try:
+        return runner(args)
+    except BrokenPipeError:  # the reader (``| head``) stopped early: not an error of ours
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return 0
 
 
 if __name__ == "__main__":

@@ -7,10 +7,14 @@ import sys
 from collections.abc import Sequence
 from typing import Any
 
+import shapely
+from shapely.geometry import Polygon
+from shapely.geometry.base import BaseGeometry
+
 from app.fileio.layout_json import LayoutFileError, load_layout
 from app.model.analysis import analyze
 from app.model.elements import Layout
-from app.model.results import LayoutResult
+from app.model.results import JunctionResult, LayoutResult
 from geometry.errors import GeometryError
 from geometry.findings import Finding, Severity
 from geometry.units import from_metres
@@ -34,11 +38,22 @@ def _area(value_m2: float, units: str) -> float:
     return value_m2 * from_metres(1.0, units) ** 2
 
 
+def _new_fillet_area_m2(junction: JunctionResult, existing: BaseGeometry | None) -> float:
+    """The junction's fillet pavement that is not existing pavement already."""
+    fillets = shapely.union_all([fillet.outline for fillet in junction.fillets]) if junction.fillets else None
+    if fillets is None:
+        return 0.0
+    return float((fillets.difference(existing) if existing is not None else fillets).area)
+
+
 def _report(layout: Layout, result: LayoutResult) -> dict[str, Any]:
     units = layout.units
+    existing = (shapely.union_all([Polygon(p.outline, p.holes) for p in layout.existing_pavements])
+                if layout.existing_pavements else None)
     junctions = [{"id": j.junction_id, "kind": j.kind, "lines": list(j.line_ids),
                   "required_area": _area(j.required_area_m2, units),
                   "buildable_area": _area(j.buildable_area_m2, units),
+                  "new_fillet_area": _area(_new_fillet_area_m2(j, existing), units),
                   "fillets": [{"corner": f.corner_key, "fillet_radius": from_metres(f.fillet_radius_m, units),
                                "taper_a": from_metres(f.taper_a_m, units),
                                "taper_b": from_metres(f.taper_b_m, units),
@@ -67,7 +82,8 @@ def _print_text(report: dict[str, Any]) -> None:
           f"{report['new_pavement_area']:,.0f} {area_units} new")
     for junction in report["junctions"]:
         print(f"  junction {junction['id']} ({junction['kind']}): required {junction['required_area']:,.0f}, "
-              f"buildable {junction['buildable_area']:,.0f} {area_units}, {_count(len(junction['fillets']), 'fillet')}")
+              f"buildable {junction['buildable_area']:,.0f} {area_units}, "
+              f"{_count(len(junction['fillets']), 'fillet')} ({junction['new_fillet_area']:,.0f} new)")
     counts = {name: sum(1 for f in report["findings"] if f["severity"] == name)
               for name in ("error", "warning", "info")}
     print(f"Findings: {_count(counts['error'], 'error')}, {_count(counts['warning'], 'warning')}, "

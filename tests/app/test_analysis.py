@@ -136,3 +136,25 @@ def test_live_pass_updates_geometry_and_keeps_the_last_findings() -> None:
     assert live.findings == full.findings  # the checks wait for the end of the drag
     assert live.straight_pavement.symmetric_difference(full.straight_pavement).area > 1.0
     assert analyzer.analyze(moved).findings != full.findings
+
+
+def test_check_reports_new_fillet_area_against_existing_pavement(tmp_path) -> None:
+    import json
+    import subprocess
+    import sys
+
+    from app.fileio.layout_json import save_layout
+    from app.model.elements import ExistingPavement
+
+    layout = crossing()
+    corner = ExistingPavement("pav-1", "old apron", ((-300.0, 0.0), (0.0, 0.0), (0.0, 300.0), (-300.0, 300.0)))
+    paths = []
+    for name, variant in (("bare", layout), ("paved", edits.add_existing_pavement(layout, corner))):
+        path = tmp_path / f"{name}.json"
+        save_layout(variant, path)
+        paths.append(path)
+    reports = [json.loads(subprocess.run([sys.executable, "-m", "app.cli", "check", str(p), "--json"],
+                                         capture_output=True, text=True, check=False).stdout) for p in paths]
+    bare, paved = (report["junctions"][0]["new_fillet_area"] for report in reports)
+    # the existing pavement covers one of the four identical fillets exactly (identity)
+    assert paved == pytest.approx(bare * 3.0 / 4.0, rel=1e-3)
