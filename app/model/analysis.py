@@ -22,6 +22,7 @@ from app.model.design_context import DesignContext, context_for, default_radius_
 from app.model.elements import Centerline, Layout, Runway
 from app.model.junction_analysis import LEAD_IN_IN_CMG, LEAD_OUT_IN_CMG, JunctionInputs, analyze_junction
 from app.model.results import JunctionResult, LayoutResult
+from app.model.unions import IncrementalUnion
 from geometry.centerline import centerline_segments, flatten
 from geometry.checks import run_checks
 from geometry.errors import GeometryError
@@ -64,6 +65,8 @@ class LayoutAnalyzer:
         self._network: JunctionNetwork | None = None
         self._last_findings: tuple[Finding, ...] | None = None
         self._key_memo: dict[tuple[object, ...], tuple[Junction, tuple[object, ...]]] = {}
+        self._straight_union = IncrementalUnion()
+        self._total_union = IncrementalUnion()
         self.last_recomputed_junctions = 0
 
     # -- lines -----------------------------------------------------------------------------
@@ -184,10 +187,11 @@ class LayoutAnalyzer:
                   geometries: dict[str, LineGeometry], widths: dict[str, float],
                   straights: dict[str, BaseGeometry], junctions: dict[str, JunctionResult],
                   findings: list[Finding], with_findings: bool, bends: list[Bend]) -> LayoutResult:
-        straight = shapely.union_all(list(straights.values())) if straights else Polygon()
-        extra = [piece for result in junctions.values() for piece in
-                 (*(fillet.outline for fillet in result.fillets), result.buildable_area)]
-        total = shapely.union_all([straight, *extra]) if extra else straight
+        straight = self._straight_union.union(straights)
+        # A junction's buildable area holds its local straights and fillets (and any required
+        # pavement no fillet form fits): with every line's straight it is all the pavement.
+        total = self._total_union.union({**{f"line:{k}": v for k, v in straights.items()},
+                                         **{f"junction:{k}": r.buildable_area for k, r in junctions.items()}})
         existing = [Polygon(p.outline, p.holes) for p in layout.existing_pavements]
         new = total.difference(shapely.union_all(existing)) if existing else total
         if with_findings or self._last_findings is None:
