@@ -110,7 +110,8 @@ def _print_sweep(result: dict[str, Any]) -> None:
         f"  smallest radius within the steering limit: {result['min_radius_for_steering_limit']:.2f} {u}",
     ]
     if "max_wingtip_offset" in result:
-        lines.append(f"  largest inner wingtip offset from centerline: {result['max_wingtip_offset']:.2f} {u}")
+        offset = result["max_wingtip_offset"]
+        lines.append(f"  largest inner wingtip offset from centerline: {offset:.2f} {u}")
     lines.append("Preliminary planning values only; verify against the governing standard and the aircraft "
                  "manufacturer's data.")
     print("\n".join(lines))

@@ -155,7 +155,8 @@ class LayoutAnalyzer:
                               with_findings, bends)
 
     def _junction_results(self, layout: Layout, network: JunctionNetwork, bends: list[Bend],
-                          context: DesignContext, widths: dict[str, float], straights: dict[str, BaseGeometry],
+                          context: DesignContext, widths: dict[str, float],
+                          straights: dict[str, BaseGeometry],
                           full: bool) -> tuple[dict[str, JunctionResult], dict[str, tuple[str, ...]]]:
         results: dict[str, JunctionResult] = {}
         problems: dict[str, tuple[str, ...]] = {}
@@ -223,7 +224,8 @@ def _relevant_length_m(junction: Junction, context: DesignContext, overrides: di
     return tangent_m + max(LEAD_IN_IN_CMG, LEAD_OUT_IN_CMG) * cmg_m + 1.0
 
 
-def _junction_key(junction: Junction, context: DesignContext, overrides: dict[str, float]) -> tuple[object, ...]:
+def _junction_key(junction: Junction, context: DesignContext,
+                  overrides: dict[str, float]) -> tuple[object, ...]:
     """What of a junction its result depends on: not the stations along its lines, and leg lengths
     only up to what its movements use, so that moving a distant vertex does not recompute it."""
     cap_m = _relevant_length_m(junction, context, overrides)
@@ -234,7 +236,8 @@ def _junction_key(junction: Junction, context: DesignContext, overrides: dict[st
 
 def _reversal_finding(reversal: Reversal) -> Finding:
     return Finding("E-CENTERLINE-REVERSAL", Severity.ERROR,
-                   f"Centerline {reversal.line_id} doubles back on itself at vertex {reversal.vertex_number}: "
+                   f"Centerline {reversal.line_id} doubles back on itself at vertex "
+                   f"{reversal.vertex_number}: "
                    f"no aircraft can follow it. Remove the vertex or draw the turn with a radius.",
                    (reversal.line_id,), reversal.point_m, "a centerline an aircraft can follow",
                    "identity (the pursuit model of docs/kinematics.md)")
@@ -242,7 +245,8 @@ def _reversal_finding(reversal: Reversal) -> Finding:
 
 def _finding_order(finding: Finding) -> tuple[int, str, float, float]:
     x, y = finding.location_m
-    return (-int(finding.severity), finding.code, x if math.isfinite(x) else 0.0, y if math.isfinite(y) else 0.0)
+    return (-int(finding.severity), finding.code, x if math.isfinite(x) else 0.0,
+            y if math.isfinite(y) else 0.0)
 
 
 def analyze(layout: Layout) -> LayoutResult:

@@ -192,7 +192,8 @@ def _movement_result(one: _Computed, inputs: JunctionInputs, pavement: BaseGeome
                      edges: BaseGeometry | None) -> MovementResult:
     movement = one.movement
     rules = inputs.context.rule_set_name
-    tracks = tuple(_tracks(swept, pavement, edges, edge_margin_m(swept.aircraft, rules)) for swept in one.swept)
+    tracks = tuple(_tracks(swept, pavement, edges, edge_margin_m(swept.aircraft, rules))
+                   for swept in one.swept)
     return MovementResult(
         key=movement.key, junction_id=movement.junction_id, from_leg_id=movement.from_leg.id,
         to_leg_id=movement.to_leg.id, turn_deg=math.degrees(movement.turn_rad), kind=movement.kind,

@@ -98,7 +98,7 @@ class JunctionResult:
 class LayoutResult:
     junctions: dict[str, JunctionResult]
     straight_pavement: BaseGeometry          # all centerlines at design width, runways at their width
-    total_pavement: BaseGeometry             # straights + fillets (+ required areas where no fillet form fits)
+    total_pavement: BaseGeometry             # straights + fillets (+ required areas no fillet form fits)
     new_pavement: BaseGeometry               # total minus existing pavement
     total_area_m2: float
     new_area_m2: float

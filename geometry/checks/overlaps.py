@@ -26,10 +26,12 @@ def check_overlaps(context: CheckContext) -> list[Finding]:
     geometries = [context.geometry(info.line.id) for info in infos]
     tree = shapely.STRtree(geometries)
     findings = []
-    for first, second in zip(*tree.query(geometries, predicate="dwithin", distance=OVERLAP_DISTANCE_M)):
+    pairs = tree.query(geometries, predicate="dwithin", distance=OVERLAP_DISTANCE_M)
+    for first, second in zip(pairs[0], pairs[1], strict=True):
         if first >= second:
             continue
-        shared = geometries[first].intersection(geometries[second].buffer(OVERLAP_DISTANCE_M, cap_style="flat"))
+        near_second = geometries[second].buffer(OVERLAP_DISTANCE_M, cap_style="flat")
+        shared = geometries[first].intersection(near_second)
         if shared.is_empty or shared.length <= OVERLAP_LENGTH_M:
             continue
         a, b = infos[first], infos[second]

@@ -121,7 +121,7 @@ def test_unchanged_layout_reuses_every_junction() -> None:
     first = analyzer.analyze(crossing())
     second = analyzer.analyze(crossing())
     assert analyzer.last_recomputed_junctions == 0
-    assert list(first.junctions.values())[0] is list(second.junctions.values())[0]
+    assert next(iter(first.junctions.values())) is next(iter(second.junctions.values()))
 
 
 def test_live_pass_updates_geometry_and_keeps_the_last_findings() -> None:
@@ -147,7 +147,8 @@ def test_check_reports_new_fillet_area_against_existing_pavement(tmp_path) -> No
     from app.model.elements import ExistingPavement
 
     layout = crossing()
-    corner = ExistingPavement("pav-1", "old apron", ((-300.0, 0.0), (0.0, 0.0), (0.0, 300.0), (-300.0, 300.0)))
+    corner = ExistingPavement("pav-1", "old apron",
+                              ((-300.0, 0.0), (0.0, 0.0), (0.0, 300.0), (-300.0, 300.0)))
     paths = []
     for name, variant in (("bare", layout), ("paved", edits.add_existing_pavement(layout, corner))):
         path = tmp_path / f"{name}.json"

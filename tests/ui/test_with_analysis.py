@@ -102,7 +102,8 @@ def test_the_inspector_sets_a_corner_turn_radius(make_window, qtbot, monkeypatch
                if panel.movements.item(r, 1).text() not in ("+0.0", "-0.0"))
     panel.movements.selectRow(row)
     assert panel.radius_button.isEnabled()
-    monkeypatch.setattr(Messages, "ask_radius", lambda self, prompt, current: 90.0)  # metres: the layout's units
+    # 90 m: the layout's own units are metres
+    monkeypatch.setattr(Messages, "ask_radius", lambda self, prompt, current: 90.0)
     panel.radius_button.click()
     settle(window)
     (override,) = window.document.layout.turn_radius_overrides_m

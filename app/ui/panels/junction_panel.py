@@ -93,7 +93,8 @@ class JunctionPanel(QtWidgets.QDockWidget):
         self.radius_button.setToolTip("Set the centerline radius of the selected turn's corner (both "
                                       "directions), or go back to the default radius")
         self.radius_button.setEnabled(False)
-        self.radius_button.clicked.connect(lambda: self.radius_requested.emit(self._movement(self._selected_key())))
+        self.radius_button.clicked.connect(
+            lambda: self.radius_requested.emit(self._movement(self._selected_key())))
         self.steering_plot.addLegend(offset=(-10, 10))
         for widget, stretch in ((self.heading, 0), (self.movements, 3), (self.radius_button, 0),
                                 (QtWidgets.QLabel("Fillets"), 0), (self.fillets, 1), (self.plot, 3)):
