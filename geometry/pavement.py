@@ -34,6 +34,7 @@ from geometry.errors import GeometryError, NonFiniteInputError
 from geometry.path import CenterlinePath
 from geometry.primitives import Arc, FloatArray, Segment, Straight
 from geometry.sweep import SweptPath
+from geometry.validate import checked_length_m
 
 SIMPLIFY_TOLERANCE_M = 0.0005  # Douglas-Peucker tolerance applied to the tyre tracks
 ARC_SAGITTA_M = 0.00025        # largest gap between a buffer's polygonal arc and the true arc
@@ -128,15 +129,6 @@ def tyre_band(swept: SweptPath, simplify_tolerance_m: float = 0.0) -> Polygonal:
     return _as_polygonal(merged)
 
 
-def _check_length(name: str, value_m: float, allow_zero: bool) -> float:
-    if not math.isfinite(value_m):
-        raise NonFiniteInputError(f"{name} must be a finite number of metres, got {value_m!r}")
-    if value_m < 0.0 or (value_m == 0.0 and not allow_zero):
-        raise GeometryError(f"{name} must be {'zero or more' if allow_zero else 'positive'}, "
-                            f"got {value_m} m")
-    return float(value_m)
-
-
 def required_movement_area(swept: SweptPath, edge_margin_m: float) -> Polygonal:
     """The tyre band widened by ``edge_margin_m`` on every side: the pavement one movement needs.
 
@@ -151,7 +143,7 @@ def required_movement_area(swept: SweptPath, edge_margin_m: float) -> Polygonal:
     >>> round(area.intersection(shapely.box(0.0, -20.0, 50.0, 20.0)).area, 6)  # 15 m wide
     750.0
     """
-    margin_m = _check_length("the edge margin", edge_margin_m, allow_zero=True)
+    margin_m = checked_length_m("the edge margin", edge_margin_m, allow_zero=True)
     band = tyre_band(swept, SIMPLIFY_TOLERANCE_M)
     if margin_m == 0.0:
         return band
@@ -186,7 +178,7 @@ def straight_pavement(centerline: CenterlineLike, width_m: float) -> Polygonal:
     >>> round(straight_pavement(Straight((0.0, 0.0), 0.3, 120.0), 23.0).area, 6)  # 23 m x 120 m
     2760.0
     """
-    half_width_m = _check_length("the pavement width", width_m, allow_zero=False) / 2.0
+    half_width_m = checked_length_m("the pavement width", width_m, allow_zero=False) / 2.0
     points = _centerline_points(centerline)
     if points.ndim != 2 or points.shape[1] != 2 or len(points) < 2:
         raise GeometryError("a straight pavement needs a centerline of at least two points")

@@ -29,6 +29,7 @@ from geometry.movements import REVERSAL_TOLERANCE_RAD, Movement
 from geometry.network import Leg
 from geometry.path import CenterlinePath
 from geometry.primitives import Arc, Point, Segment, Straight
+from geometry.validate import checked_length_m
 
 STANDARD_TURN_ANGLES_DEG: tuple[float, ...] = (30.0, 45.0, 60.0, 90.0, 120.0, 135.0, 150.0, 180.0)
 SPEED_RADIUS_DIVISOR = 17.07          # R [m] = V^2 / 17.07, V [km/h]: Horonjeff Table 6-22 (ICAO ADM)
@@ -48,12 +49,7 @@ class TurnArc:
 
 
 def _positive(name: str, value_m: float, allow_zero: bool = False) -> float:
-    if not math.isfinite(value_m):
-        raise NonFiniteInputError(f"{name} must be a finite number, got {value_m!r}")
-    if value_m < 0.0 or (value_m == 0.0 and not allow_zero):
-        raise InvalidPathError(f"{name} must be {'zero or more' if allow_zero else 'positive'}, "
-                               f"got {value_m} m")
-    return float(value_m)
+    return checked_length_m(name, value_m, allow_zero=allow_zero, error=InvalidPathError)
 
 
 def _along(point: Point, heading_rad: float, distance_m: float) -> Point:

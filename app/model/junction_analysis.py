@@ -48,6 +48,7 @@ class JunctionInputs:
 @dataclass(frozen=True, slots=True, eq=False)
 class _Computed:
     movement: Movement
+    corner_key: str | None          # the one corner the turn sweeps; None when it crosses a leg
     radius_m: float | None
     arc: Arc | None
     swept: tuple[SweptPath, ...]
@@ -77,17 +78,22 @@ def _once_gear_is_on_path(swept: SweptPath) -> SweptPath:
     return replace(swept, **arrays)
 
 
-def _radius_for(movement: Movement, junction: Junction, inputs: JunctionInputs) -> float:
+def _single_corner(movement: Movement, junction: Junction) -> str | None:
     keys = corner_of(movement, junction).corner_keys
+    return keys[0] if len(keys) == 1 else None
+
+
+def _radius_for(movement: Movement, corner_key: str | None, inputs: JunctionInputs) -> float:
     overrides = dict(inputs.overrides_m)
-    if len(keys) == 1 and keys[0] in overrides:
-        return overrides[keys[0]]
+    if corner_key is not None and corner_key in overrides:
+        return overrides[corner_key]
     return default_radius_m(movement.turn_rad, inputs.context)
 
 
 def _compute_turn(movement: Movement, inputs: JunctionInputs) -> _Computed:
     junction = inputs.junction
-    radius_m = _radius_for(movement, junction, inputs)
+    corner_key = _single_corner(movement, junction)
+    radius_m = _radius_for(movement, corner_key, inputs)
     try:
         arc = turn_arc(junction.point, movement.arrival_heading_rad, movement.departure_heading_rad, radius_m)
         cmg_m = max(aircraft.cmg_m for aircraft in inputs.context.fleet)
@@ -98,8 +104,8 @@ def _compute_turn(movement: Movement, inputs: JunctionInputs) -> _Computed:
         areas = [required_movement_area(one, edge_margin_m(one.aircraft, inputs.context.rule_set_name))
                  for one in swept]
     except GeometryError as error:
-        return _Computed(movement, radius_m, None, (), None, str(error))
-    return _Computed(movement, radius_m, arc.arc, swept, shapely.union_all(areas), None)
+        return _Computed(movement, corner_key, radius_m, None, (), None, str(error))
+    return _Computed(movement, corner_key, radius_m, arc.arc, swept, shapely.union_all(areas), None)
 
 
 def _fit_corner(key: str, computed: list[_Computed], inputs: JunctionInputs,
@@ -202,12 +208,7 @@ def _movement_result(one: _Computed, inputs: JunctionInputs, pavement: BaseGeome
         required_area=one.area, required_area_m2=float(one.area.area) if one.area is not None else 0.0,
         max_steering_deg=max((t.max_steering_deg for t in tracks), default=0.0),
         min_edge_margin_m=min((t.min_edge_margin_m for t in tracks), default=math.inf),
-        problem=one.problem, corner_key=_single_corner(movement, inputs.junction))
-
-
-def _single_corner(movement: Movement, junction: Junction) -> str | None:
-    keys = corner_of(movement, junction).corner_keys
-    return keys[0] if len(keys) == 1 else None
+        problem=one.problem, corner_key=one.corner_key)
 
 
 def _straight_movement(movement: Movement, inputs: JunctionInputs) -> MovementResult:
@@ -229,9 +230,8 @@ def analyze_junction(inputs: JunctionInputs) -> tuple[JunctionResult, tuple[str,
     by_corner: dict[str, list[_Computed]] = defaultdict(list)
     loose: list[BaseGeometry] = []
     for one in usable:
-        keys = corner_of(one.movement, junction).corner_keys
-        if len(keys) == 1:
-            by_corner[keys[0]].append(one)
+        if one.corner_key is not None:
+            by_corner[one.corner_key].append(one)
         else:
             loose.append(one.area)  # a turn across another leg: no fillet of the usual form
     fillets, problems = [], []

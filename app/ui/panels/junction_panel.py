@@ -37,14 +37,10 @@ def _leg_end(junction_id: str, leg_id: str) -> str:
 
 
 def fillet_of(movement: MovementResult, junction: JunctionResult) -> FilletResult | None:
-    """The fillet on the inside of a turn between two neighbouring legs (corner keys name the
-    junction and the two leg ends; see geometry.movements)."""
-    ends = {_leg_end(junction.junction_id, movement.from_leg_id), _leg_end(junction.junction_id,
-                                                                            movement.to_leg_id)}
-    for fillet in junction.fillets:
-        if set(_leg_end(junction.junction_id, fillet.corner_key).split("~")) == ends:
-            return fillet
-    return None
+    """The fillet on the inside of a turn: the one at the corner the turn sweeps."""
+    if movement.corner_key is None:
+        return None
+    return next((fillet for fillet in junction.fillets if fillet.corner_key == movement.corner_key), None)
 
 
 def _item(text: str, movement_key: str | None = None) -> QtWidgets.QTableWidgetItem:
