@@ -37,7 +37,10 @@ def test_drawing_two_crossing_centerlines_makes_a_junction_and_pavement(make_win
     (junction,) = window.result.junctions.values()
     assert junction.kind == "crossing" and len(junction.fillets) == 4
     # the fillets add pavement beyond the two straights (identity)
-    assert window.result.total_area_m2 > straight_only + window.document.layout.centerlines[1].vertices[1].y_m
+    fillet_area_m2 = sum(fillet.area_m2 for fillet in junction.fillets)
+    assert window.result.total_area_m2 > window.result.straight_pavement.area > straight_only
+    assert window.result.total_area_m2 == pytest.approx(window.result.straight_pavement.area + fillet_area_m2,
+                                                        rel=1e-3)
 
 
 def test_dragging_a_junction_updates_pavement_and_one_undo_restores_it(make_window, qtbot) -> None:  # type: ignore[no-untyped-def]
