@@ -13,8 +13,11 @@ Method (docs/pavement.md): seen from C0, a required point at polar angle w and d
 out of the circle over the directions w +/- acos(F / rho); it stays paved exactly when that window
 overlaps the arc's directions [phi_a, turn - phi_b] (phi: where each taper touches the circle).
 For a fixed F the steepest tapers (shortest L) and the added area are closed forms; nested grids
-over F in [0, largest admissible F] find the least area. F is rounded down and L up to 0.01 m,
-which keeps containment, and shapely checks the result. The work is done in a local frame: origin
+over F in [0, largest admissible F] find the least area (:mod:`geometry.fillet_search`). Only the
+points that can set a steepest taper take part, and the search stops once all that is left rounds
+to the same centimetre. F is rounded down and L up to 0.01 m,
+which keeps containment, and shapely checks the result (a prepared ``covers``; the tolerant
+measure only when it says no). The work is done in a local frame: origin
 J, x along leg A, y toward leg B (mirrored when B is clockwise of A), so C0 = (R / tan(theta/2), R).
 """
 from __future__ import annotations
@@ -25,21 +28,29 @@ from dataclasses import dataclass, replace
 from typing import cast
 
 import numpy as np
+import numpy.typing as npt
 import shapely
 from shapely.geometry import LineString, Polygon
 from shapely.geometry.base import BaseGeometry
 
 from geometry.errors import FilletDoesNotFitError, InvalidCornerError, NonFiniteInputError
+from geometry.fillet_search import (
+    STEPS_PER_M,
+    CornerFrame,
+    SearchPoints,
+    added_area_m2,
+    front_points,
+    least_area_radius_m,
+    spaced,
+    taper_angles,
+    taper_start_m,
+)
 from geometry.pavement import ARC_SAGITTA_M, containment_gap
 from geometry.primitives import FloatArray, Point
 
 COVER_TOLERANCE_M = 1e-5       # required pavement within 10 micrometres of the straights is covered
 AREA_TOLERANCE_M2 = 1e-6       # less uncovered area than this is none
-STEPS_PER_M = 100.0            # reported F and L are whole centimetres
-MIN_TAPER_ANGLE_RAD = 1e-3     # a taper flatter than 1 in 1000 never ends: treated as unbuildable
 MIN_CORNER_RAD = math.radians(1.0)
-RADIUS_GRID_SIZE = 32          # F values per round of the search
-SEARCH_ROUNDS = 4              # each round narrows the bracket 15-fold: 2e-5 of the range at the end
 CENTRE_TOLERANCE_M = 1e-3
 # The outline reaches this far into the straights: edges shared exactly with them make GEOS unions
 # drop the fillet now and then (libgeos/geos issues 965 and 1344); an overlap is robust.
@@ -87,64 +98,11 @@ class Fillet:
     uncovered_area_m2: float
 
 
-@dataclass(frozen=True, slots=True)
-class _Frame:
-    """The corner in its local frame (see the module notes)."""
-
-    junction: Point
-    heading_a_rad: float
-    side: float            # +1 when leg B is counter-clockwise of leg A, -1 when clockwise
-    angle_rad: float       # theta, between the legs
-    half_a_m: float
-    half_b_m: float
-    radius_m: float
-
-    @property
-    def turn_rad(self) -> float:
-        return math.pi - self.angle_rad
-
-    @property
-    def tangent_m(self) -> float:
-        return self.radius_m / math.tan(self.angle_rad / 2.0)
-
-    @property
-    def center(self) -> FloatArray:
-        return np.array([self.tangent_m, self.radius_m])
-
-    def corner_point(self, inset_m: float = 0.0) -> FloatArray:
-        """Where the inner edges meet (moved ``inset_m`` into both straights)."""
-        half_a, half_b = self.half_a_m - inset_m, self.half_b_m - inset_m
-        return np.array([(half_b + half_a * math.cos(self.angle_rad)) / math.sin(self.angle_rad), half_a])
-
-    def to_local(self, xy: FloatArray) -> FloatArray:
-        d = np.asarray(xy, dtype=float).reshape(-1, 2) - np.asarray(self.junction)
-        c, s = math.cos(self.heading_a_rad), math.sin(self.heading_a_rad)
-        return np.column_stack((c * d[:, 0] + s * d[:, 1], self.side * (c * d[:, 1] - s * d[:, 0])))
-
-    def to_world(self, xy: FloatArray) -> FloatArray:
-        local = np.asarray(xy, dtype=float).reshape(-1, 2)
-        x, y = local[:, 0], self.side * local[:, 1]
-        c, s = math.cos(self.heading_a_rad), math.sin(self.heading_a_rad)
-        return np.column_stack((self.junction[0] + c * x - s * y, self.junction[1] + s * x + c * y))
-
-    def mirror_b_to_a(self, xy: FloatArray) -> FloatArray:
-        """Reflection across the corner's bisector: leg B onto leg A (and back)."""
-        m = np.array([math.cos(self.angle_rad / 2.0), math.sin(self.angle_rad / 2.0)])
-        local = np.asarray(xy, dtype=float).reshape(-1, 2)
-        return np.asarray(2.0 * np.outer(local @ m, m) - local, dtype=float)
-
-
-@dataclass(frozen=True, slots=True)
-class _Points:
-    """Boundary points of the required area outside the straights, as seen from C0."""
-
-    polar_rad: FloatArray  # from the foot of C0 on leg A, positive toward J and leg B
-    distance_m: FloatArray
-    max_radius_m: float    # the disc of radius F must not reach into the required area
+_Parts = npt.NDArray[np.object_]  # shapely geometries (the parts of the target)
 
 
 def _corner_frame(junction_point: Point, heading_a_rad: float, heading_b_rad: float, width_a_m: float,
-                  width_b_m: float, arc_center: Point, radius_m: float) -> _Frame:
+                  width_b_m: float, arc_center: Point, radius_m: float) -> CornerFrame:
     values = (*junction_point, heading_a_rad, heading_b_rad, width_a_m, width_b_m, *arc_center, radius_m)
     if not all(math.isfinite(value) for value in values):
         raise NonFiniteInputError(f"a corner coordinate, heading, width or radius is not finite: {values}")
@@ -154,134 +112,79 @@ def _corner_frame(junction_point: Point, heading_a_rad: float, heading_b_rad: fl
     if not MIN_CORNER_RAD <= abs(signed) <= math.pi - MIN_CORNER_RAD:
         raise InvalidCornerError(f"the legs are {math.degrees(abs(signed)):.1f} degrees apart: a corner "
                                  f"needs legs between 1 and 179 degrees apart")
-    frame = _Frame((float(junction_point[0]), float(junction_point[1])), heading_a_rad,
-                   1.0 if signed > 0.0 else -1.0, abs(signed), width_a_m / 2.0, width_b_m / 2.0, radius_m)
+    frame = CornerFrame((float(junction_point[0]), float(junction_point[1])), heading_a_rad,
+                        1.0 if signed > 0.0 else -1.0, abs(signed), width_a_m / 2.0, width_b_m / 2.0,
+                        radius_m)
     if radius_m <= max(frame.half_a_m, frame.half_b_m):
         raise InvalidCornerError(f"the turn radius {radius_m:.2f} m is not larger than half the pavement "
                                  f"width ({max(width_a_m, width_b_m) / 2.0:.2f} m): use a larger radius")
-    expected = frame.to_world(frame.center)[0]
+    expected = frame.point_to_world(frame.tangent_m, frame.radius_m)
     if math.dist(expected, arc_center) > max(CENTRE_TOLERANCE_M, 1e-6 * radius_m):
         raise InvalidCornerError(f"the turn arc centre ({arc_center[0]:.3f}, {arc_center[1]:.3f}) is not at "
                                  f"radius {radius_m:.2f} m from both leg centerlines")
     return frame
 
 
-def _target(frame: _Frame, required: BaseGeometry, straights: BaseGeometry) -> BaseGeometry:
-    """The part of ``required`` inside the corner (beyond both inner edges) and off the straights."""
-    corner = frame.corner_point()
+def _reach_m(frame: CornerFrame, required: BaseGeometry) -> float:
+    """How far the corner's wedge reaches along each inner edge: past all of ``required``."""
+    corner_x, corner_y = frame.corner_point()
     minx, miny, maxx, maxy = required.bounds
-    reach_m = 2.0 * max(math.dist(frame.junction, xy) for xy in ((minx, miny), (maxx, maxy))) \
-        + 2.0 * frame.radius_m + np.linalg.norm(corner)
+    return 2.0 * max(math.dist(frame.junction, xy) for xy in ((minx, miny), (maxx, maxy))) \
+        + 2.0 * frame.radius_m + math.hypot(corner_x, corner_y)
+
+
+def _wedge(frame: CornerFrame, reach_m: float) -> Polygon:
+    """The region beyond both inner edges (apex P), a parallelogram ``reach_m`` along each edge."""
+    corner = frame.corner_point()
     a, b = np.array([1.0, 0.0]), np.array([math.cos(frame.angle_rad), math.sin(frame.angle_rad)])
-    wedge = Polygon(frame.to_world(np.array([corner, corner + reach_m * a, corner + reach_m * (a + b),
-                                             corner + reach_m * b])))
-    covered = straights.buffer(COVER_TOLERANCE_M, join_style="mitre")
-    return cast(BaseGeometry, required.intersection(wedge).difference(covered))
+    return Polygon(frame.to_world(np.array([corner, corner + reach_m * a, corner + reach_m * (a + b),
+                                            corner + reach_m * b])))
 
 
-def _points(frame: _Frame, target: BaseGeometry) -> _Points:
-    local = np.vstack((frame.to_local(shapely.get_coordinates(target)), frame.corner_point()))
+@dataclass(frozen=True, slots=True)
+class _Target:
+    """The required area off the straights and inside the corner: its parts, and their vertices
+    in the corner's local frame."""
+
+    parts: _Parts
+    local: FloatArray
+
+
+def _target(frame: CornerFrame, required: BaseGeometry, off_straights: _Parts) -> _Target:
+    """The parts of the required area off the straights that lie inside the corner, beyond both
+    inner edges. A part whose vertices all lie in the (convex) wedge is inside it as it is; only
+    the others are clipped by shapely."""
+    if len(off_straights) == 0:
+        return _Target(off_straights, np.empty((0, 2)))
+    coordinates, index = shapely.get_coordinates(off_straights, return_index=True)
+    local = frame.to_local(coordinates)
+    corner_x, corner_y = frame.corner_point()
+    along_b = (local[:, 1] - corner_y) / math.sin(frame.angle_rad)
+    along_a = (local[:, 0] - corner_x) - along_b * math.cos(frame.angle_rad)
+    reach_m = _reach_m(frame, required)
+    inside = (along_a >= 0.0) & (along_a <= reach_m) & (along_b >= 0.0) & (along_b <= reach_m)
+    whole = np.bincount(index, weights=~inside, minlength=len(off_straights)) == 0
+    if whole.all():
+        return _Target(off_straights, local)
+    clipped = shapely.get_parts(shapely.intersection(off_straights[~whole], _wedge(frame, reach_m)))
+    clipped = clipped[~shapely.is_empty(clipped)]
+    return _Target(np.concatenate((off_straights[whole], clipped)),
+                   np.vstack((local[whole[index]], frame.to_local(shapely.get_coordinates(clipped)))))
+
+
+def _points(frame: CornerFrame, target: _Target) -> SearchPoints:
+    local = np.vstack((target.local, frame.corner_point()))
     offset = local - frame.center
     polar = np.arctan2(-offset[:, 0], -offset[:, 1])
     half_turn = frame.turn_rad / 2.0
     polar = half_turn + np.remainder(polar - half_turn + math.pi, 2.0 * math.pi) - math.pi
-    centre = shapely.points(frame.to_world(frame.center)[0])
-    max_radius_m = min(float(shapely.distance(centre, target)), float(np.hypot(*offset[-1])))
-    return _Points(polar, np.maximum(np.hypot(offset[:, 0], offset[:, 1]), 1e-12), max_radius_m)
-
-
-def _least_angle(clearance_m: float, radius_m: FloatArray) -> FloatArray:
-    """Taper angle at which the tangent meets the edge on the circle (no taper), for F > clearance."""
-    ratio = np.divide(clearance_m, radius_m, out=np.full(radius_m.shape, 2.0), where=radius_m > 0.0)
-    return np.asarray(np.arccos(np.minimum(ratio, 1.0)), dtype=float)
-
-
-@dataclass(frozen=True, slots=True)
-class _Tapers:
-    """For each F of a search: taper angles (phi_a, phi_b) and whether they keep every point paved."""
-
-    phi_a: FloatArray
-    phi_b: FloatArray
-    feasible: FloatArray
-
-
-def _tapers(frame: _Frame, points: _Points, radius_m: FloatArray) -> _Tapers:
-    """The steepest admissible taper angles for each F, shared out when the two tapers would meet
-    before the circle (any split between the two limits is admissible; the middle is taken)."""
-    window = np.arccos(np.minimum(radius_m[:, None] / points.distance_m[None, :], 1.0))
-    steepest_a = np.min(points.polar_rad + window, axis=1)
-    steepest_b = np.min((frame.turn_rad - points.polar_rad) + window, axis=1)
-    least_a = _least_angle(frame.radius_m - frame.half_a_m, radius_m)
-    least_b = _least_angle(frame.radius_m - frame.half_b_m, radius_m)
-    feasible = ((radius_m <= points.max_radius_m) & (steepest_a >= np.maximum(least_a, MIN_TAPER_ANGLE_RAD))
-                & (steepest_b >= np.maximum(least_b, MIN_TAPER_ANGLE_RAD)))
-    turn = frame.turn_rad
-    shared = (np.maximum(least_a, turn - steepest_b) + np.minimum(steepest_a, turn - least_b)) / 2.0
-    crossing = steepest_a + steepest_b > turn
-    return _Tapers(np.where(crossing, shared, steepest_a), np.where(crossing, turn - shared, steepest_b),
-                   feasible)
-
-
-def _start_m(frame: _Frame, clearance_m: float, phi: FloatArray, radius_m: FloatArray) -> FloatArray:
-    """L: where the tangent at angle phi meets the inner edge (clearance = R - w/2)."""
-    return np.asarray(frame.tangent_m + (clearance_m * np.cos(phi) - radius_m) / np.sin(phi), dtype=float)
-
-
-def _unit(psi: FloatArray) -> FloatArray:
-    return np.stack((-np.sin(psi), -np.cos(psi)), axis=-1)
-
-
-def _added_area_m2(frame: _Frame, radius_m: FloatArray, phi_a: FloatArray, phi_b: FloatArray) -> FloatArray:
-    """Closed-form area of the fillet: polygon P, Q_a, T_a, T_b, Q_b less the circular segment."""
-    start_a = _start_m(frame, frame.radius_m - frame.half_a_m, phi_a, radius_m)
-    start_b = _start_m(frame, frame.radius_m - frame.half_b_m, phi_b, radius_m)
-    cos_t, sin_t = math.cos(frame.angle_rad), math.sin(frame.angle_rad)
-    corner_x, corner_y = frame.corner_point()
-    psi_b = frame.turn_rad - phi_b
-    xs = (corner_x, start_a, frame.tangent_m - radius_m * np.sin(phi_a),
-          frame.tangent_m - radius_m * np.sin(psi_b), start_b * cos_t + frame.half_b_m * sin_t)
-    ys = (corner_y, frame.half_a_m, frame.radius_m - radius_m * np.cos(phi_a),
-          frame.radius_m - radius_m * np.cos(psi_b), start_b * sin_t - frame.half_b_m * cos_t)
-    twice = sum(xs[i] * ys[(i + 1) % 5] - xs[(i + 1) % 5] * ys[i] for i in range(5))
-    arc_rad = psi_b - phi_a
-    return np.asarray(np.abs(twice) / 2.0 - radius_m**2 / 2.0 * (arc_rad - np.sin(arc_rad)), dtype=float)
-
-
-def _area_at(frame: _Frame, points: _Points, radius_m: FloatArray) -> FloatArray:
-    tapers = _tapers(frame, points, radius_m)
-    areas = _added_area_m2(frame, radius_m, tapers.phi_a, tapers.phi_b)
-    return np.where(tapers.feasible, areas, np.inf)
-
-
-def _largest_feasible_radius_m(frame: _Frame, points: _Points) -> float:
-    """Feasibility only shrinks as F grows (the windows narrow): nested grids find where it ends."""
-    if not _tapers(frame, points, np.zeros(1)).feasible[0]:
-        raise FilletDoesNotFitError("the required pavement reaches beyond the turn centre or along a leg "
-                                    "past any taper: no fillet of the usual form can contain it; "
-                                    "check the turn radius and the pavement widths")
-    low, high = 0.0, points.max_radius_m
-    for _ in range(SEARCH_ROUNDS):
-        grid = np.linspace(low, high, RADIUS_GRID_SIZE)
-        feasible = _tapers(frame, points, grid).feasible
-        last = int(np.argmin(feasible)) - 1 if not feasible.all() else len(grid) - 1
-        if last == len(grid) - 1:
-            return float(grid[-1])
-        low, high = float(grid[last]), float(grid[last + 1])
-    return low
-
-
-def _least_area_radius_m(frame: _Frame, points: _Points) -> float:
-    """F of least added area over [0, largest feasible F]: a grid, refined round its best point."""
-    low, high = 0.0, _largest_feasible_radius_m(frame, points)
-    best_area, best_radius = math.inf, high
-    for _ in range(SEARCH_ROUNDS):
-        grid = np.linspace(low, high, RADIUS_GRID_SIZE)
-        areas = _area_at(frame, points, grid)
-        best = int(np.argmin(areas))
-        if areas[best] < best_area:
-            best_area, best_radius = float(areas[best]), float(grid[best])
-        low, high = float(grid[max(best - 1, 0)]), float(grid[min(best + 1, len(grid) - 1)])
-    return best_radius
+    centre = shapely.points(frame.point_to_world(frame.tangent_m, frame.radius_m))
+    max_radius_m = min(float(shapely.distance(centre, target.parts).min()), float(np.hypot(*offset[-1])))
+    distance = np.maximum(np.hypot(offset[:, 0], offset[:, 1]), 1e-12)
+    polar_a, distance_a = front_points(polar, distance)
+    negated_b, distance_b = front_points(-polar, distance)  # side B: the largest polar angles count
+    return SearchPoints(polar_a[:, None], distance_a[:, None], (frame.turn_rad + negated_b)[:, None],
+                        distance_b[:, None], max_radius_m)
 
 
 @dataclass(frozen=True, slots=True)
@@ -290,81 +193,85 @@ class _Side:
     straight edge (point and distance from J) and where it meets the circle."""
 
     phi_rad: float
-    leaves: FloatArray
-    touches: FloatArray
+    leaves: tuple[float, float]
+    touches: tuple[float, float]
     start_m: float
 
 
-def _side(frame: _Frame, half_m: float, radius_m: float, start_m: float) -> _Side:
+def _side(frame: CornerFrame, half_m: float, radius_m: float, start_m: float) -> _Side:
     """The taper from the edge point at ``start_m`` (leg A's frame) tangent to the circle."""
     clearance_m = frame.radius_m - half_m
-    leaves = np.array([start_m, half_m])
-    offset = leaves - frame.center
-    distance_m = float(np.hypot(*offset))
-    least = float(_least_angle(clearance_m, np.array([radius_m]))[0])
+    offset_x, offset_y = start_m - frame.tangent_m, half_m - frame.radius_m
+    distance_m = math.hypot(offset_x, offset_y)
+    least = math.acos(min(clearance_m / radius_m, 1.0)) if radius_m > 0.0 else 0.0
     phi = least
     if distance_m > radius_m:
-        phi = max(least, math.atan2(-offset[0], -offset[1]) + math.acos(radius_m / distance_m))
-    touches = frame.center + radius_m * _unit(np.array(phi))
+        phi = max(least, math.atan2(-offset_x, -offset_y) + math.acos(radius_m / distance_m))
+    touches = (frame.tangent_m - radius_m * math.sin(phi), frame.radius_m - radius_m * math.cos(phi))
     if phi <= least and radius_m > clearance_m:  # the circle meets the edge directly: no taper
-        return _Side(phi, touches, touches, float(touches[0]))
-    return _Side(phi, leaves, touches, start_m)
+        return _Side(phi, touches, touches, touches[0])
+    return _Side(phi, (start_m, half_m), touches, start_m)
 
 
-def _arc_points(frame: _Frame, radius_m: float, first_rad: float, last_rad: float) -> FloatArray:
+def _arc_points(frame: CornerFrame, radius_m: float, first_rad: float, last_rad: float) -> FloatArray:
     """Points on the circle (chords inside it, so the outline holds a little more pavement)."""
     count = 1
     if radius_m > ARC_SAGITTA_M and last_rad > first_rad:
         count = math.ceil((last_rad - first_rad) / (2.0 * math.acos(1.0 - ARC_SAGITTA_M / radius_m)))
-    return frame.center + radius_m * _unit(np.linspace(first_rad, last_rad, count + 1))
+    psi = spaced(first_rad, last_rad, count + 1)
+    return np.column_stack((frame.tangent_m + radius_m * -np.sin(psi),
+                            frame.radius_m + radius_m * -np.cos(psi)))
 
 
 def _without_repeats(points: FloatArray) -> FloatArray:
     return points[np.concatenate(([True], np.hypot(*np.diff(points, axis=0).T) > 1e-9))]
 
 
-def _world_arc(frame: _Frame, radius_m: float, touch_a: FloatArray, touch_b: FloatArray) -> FilletArc:
-    centre, end_a, end_b = frame.to_world(np.vstack((frame.center, touch_a, touch_b)))
+def _world_arc(frame: CornerFrame, radius_m: float, touch_a: tuple[float, float],
+               touch_b: tuple[float, float]) -> FilletArc:
+    centre = frame.point_to_world(frame.tangent_m, frame.radius_m)
+    end_a, end_b = frame.point_to_world(*touch_a), frame.point_to_world(*touch_b)
     angle_a = math.atan2(end_a[1] - centre[1], end_a[0] - centre[0])
     angle_b = math.atan2(end_b[1] - centre[1], end_b[0] - centre[0])
     # In the local frame the arc runs clockwise from leg A to leg B; mirroring reverses that.
     start, end = (angle_b, angle_a) if frame.side > 0.0 else (angle_a, angle_b)
-    return FilletArc((float(centre[0]), float(centre[1])), radius_m, start,
-                     start + (end - start) % (2.0 * math.pi))
+    return FilletArc(centre, radius_m, start, start + (end - start) % (2.0 * math.pi))
 
 
-def _build(frame: _Frame, corner_key: str, radius_m: float, start_a_m: float, start_b_m: float) -> Fillet:
+def _build(frame: CornerFrame, corner_key: str, radius_m: float, start_a_m: float,
+           start_b_m: float) -> Fillet:
     side_a = _side(frame, frame.half_a_m, radius_m, start_a_m)
     side_b = _side(frame, frame.half_b_m, radius_m, start_b_m)  # in leg B's mirror image
-    leaves_b, touches_b = frame.mirror_b_to_a(np.vstack((side_b.leaves, side_b.touches)))
+    leaves_b, touches_b = frame.mirror_point(*side_b.leaves), frame.mirror_point(*side_b.touches)
     last_rad = frame.turn_rad - side_b.phi_rad
     crossing = last_rad < side_a.phi_rad  # the tapers meet before the circle: a straight chamfer
     ends = (side_a.leaves, leaves_b) if crossing else \
         (side_a.leaves, _arc_points(frame, radius_m, side_a.phi_rad, last_rad), leaves_b)
     edge_local = _without_repeats(np.vstack(ends))
-    inset_a = np.array([edge_local[0][0], frame.half_a_m - OVERLAP_M])
-    inset_b = frame.mirror_b_to_a(np.array([side_b.leaves[0], frame.half_b_m - OVERLAP_M]))
+    inset_a = (edge_local[0][0], frame.half_a_m - OVERLAP_M)
+    inset_b = frame.mirror_point(side_b.leaves[0], frame.half_b_m - OVERLAP_M)
     ring = np.vstack((frame.corner_point(OVERLAP_M), inset_a, edge_local, inset_b))
-    outline = Polygon(frame.to_world(ring))
-    area_m2 = float(outline.area) if crossing else float(_added_area_m2(
-        frame, np.array([radius_m]), np.array([side_a.phi_rad]), np.array([side_b.phi_rad]))[0])
+    world = frame.to_world(ring)
+    outline = cast(Polygon, shapely.polygons(world))
+    area_m2 = float(outline.area) if crossing else float(added_area_m2(
+        frame, radius_m, side_a.phi_rad, side_b.phi_rad))
     has_arc = radius_m > 0.0 and last_rad > side_a.phi_rad
     return Fillet(
         corner_key=corner_key, fillet_radius_m=radius_m, taper_a_m=side_a.start_m, taper_b_m=side_b.start_m,
-        center=cast(Point, tuple(float(v) for v in frame.to_world(frame.center)[0])), outline=outline,
-        edge=LineString(frame.to_world(edge_local)),
+        center=frame.point_to_world(frame.tangent_m, frame.radius_m), outline=outline,
+        edge=cast(LineString, shapely.linestrings(world[2:2 + len(edge_local)])),
         arc=_world_arc(frame, radius_m, side_a.touches, touches_b) if has_arc else None,
         area_m2=area_m2, max_width_from_centerline_m=frame.radius_m - radius_m,
-        taper_a_length_m=float(np.hypot(*(side_a.leaves - side_a.touches))),
-        taper_b_length_m=float(np.hypot(*(side_b.leaves - side_b.touches))), uncovered_area_m2=0.0)
+        taper_a_length_m=math.dist(side_a.leaves, side_a.touches),
+        taper_b_length_m=math.dist(side_b.leaves, side_b.touches), uncovered_area_m2=0.0)
 
 
-def _rounded(frame: _Frame, points: _Points, corner_key: str, radius_m: float) -> Fillet:
+def _rounded(frame: CornerFrame, points: SearchPoints, corner_key: str, radius_m: float) -> Fillet:
     """The fillet at F rounded down, with each L from the steepest taper there, rounded up."""
     radius_m = max(0.0, math.floor(radius_m * STEPS_PER_M) / STEPS_PER_M)
-    tapers = _tapers(frame, points, np.array([radius_m]))
-    start_a = _start_m(frame, frame.radius_m - frame.half_a_m, tapers.phi_a, np.array([radius_m]))[0]
-    start_b = _start_m(frame, frame.radius_m - frame.half_b_m, tapers.phi_b, np.array([radius_m]))[0]
+    tapers = taper_angles(frame, points, np.array([radius_m]))
+    start_a = float(taper_start_m(frame, frame.radius_m - frame.half_a_m, tapers.phi_a[0], radius_m))
+    start_b = float(taper_start_m(frame, frame.radius_m - frame.half_b_m, tapers.phi_b[0], radius_m))
     return _build(frame, corner_key, radius_m, math.ceil(start_a * STEPS_PER_M) / STEPS_PER_M,
                   math.ceil(start_b * STEPS_PER_M) / STEPS_PER_M)
 
@@ -398,9 +305,23 @@ def build_fillet(junction_point: Point, heading_a_rad: float, heading_b_rad: flo
     return _build(frame, corner_key, fillet_radius_m, taper_a_m, taper_b_m)
 
 
-def _contains(outline: Polygon, target: BaseGeometry) -> bool:
-    gap = containment_gap(target, outline)
-    return gap.area_m2 < AREA_TOLERANCE_M2 and gap.max_distance_m <= COVER_TOLERANCE_M
+def _left_out_m2(outline: Polygon, target: _Parts) -> float | None:
+    """The area of the target left outside the outline, or None when more is left out than the
+    tolerances allow (AREA_TOLERANCE_M2, COVER_TOLERANCE_M). Shapely's covers (prepared) first;
+    the tolerant measure only when it says no."""
+    shapely.prepare(outline)
+    if bool(shapely.covers(outline, target).all()):
+        return 0.0
+    gap = containment_gap(shapely.union_all(target), outline)
+    held = gap.area_m2 < AREA_TOLERANCE_M2 and gap.max_distance_m <= COVER_TOLERANCE_M
+    return gap.area_m2 if held else None
+
+
+def _uncovered_area_m2(off_straights: _Parts, outline: Polygon) -> float:
+    """The area of the required area off the straights left outside the (prepared) outline."""
+    if bool(shapely.covers(outline, off_straights).all()):
+        return 0.0
+    return float(shapely.union_all(off_straights).difference(outline).area)
 
 
 def fit_fillet(required: BaseGeometry, straights: BaseGeometry | Sequence[BaseGeometry],
@@ -439,17 +360,23 @@ def fit_fillet(required: BaseGeometry, straights: BaseGeometry | Sequence[BaseGe
     frame = _corner_frame(junction_point, heading_a_rad, heading_b_rad, width_a_m, width_b_m, arc_center,
                           centerline_radius_m)
     paved = straights if isinstance(straights, BaseGeometry) else shapely.union_all(list(straights))
-    target = Polygon() if required.is_empty else _target(frame, required, paved)
-    if target.area < AREA_TOLERANCE_M2:
+    if required.is_empty:
+        return None
+    covered = paved.buffer(COVER_TOLERANCE_M, join_style="mitre")
+    off_straights = shapely.get_parts(required.difference(covered))
+    target = _target(frame, required, off_straights)
+    if float(shapely.area(target.parts).sum()) < AREA_TOLERANCE_M2:
         return None
     points = _points(frame, target)
-    radius_m = _least_area_radius_m(frame, points)
+    radius_m = least_area_radius_m(frame, points)
     for attempt in range(3):  # a safeguard: the closed form already keeps the check
         fillet = _rounded(frame, points, corner_key, radius_m - attempt / STEPS_PER_M)
-        if _contains(fillet.outline, target):
+        left_out_m2 = _left_out_m2(fillet.outline, target.parts)
+        if left_out_m2 is not None:
             break
     else:
         raise FilletDoesNotFitError(f"corner {corner_key}: the fitted fillet does not contain the "
                                     f"required pavement; check the corner's geometry")
-    covered = shapely.union_all([paved.buffer(COVER_TOLERANCE_M, join_style="mitre"), fillet.outline])
-    return replace(fillet, uncovered_area_m2=containment_gap(required, covered).area_m2)
+    if target.parts is not off_straights:  # some required area lies outside the corner
+        left_out_m2 = _uncovered_area_m2(off_straights, fillet.outline)
+    return replace(fillet, uncovered_area_m2=left_out_m2) if left_out_m2 else fillet

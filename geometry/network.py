@@ -29,7 +29,7 @@ import math
 from bisect import bisect_left
 from collections import defaultdict
 from collections.abc import Iterable, Mapping, Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from itertools import pairwise
 from typing import Literal
 
@@ -37,16 +37,27 @@ import shapely
 
 from geometry import centerline
 from geometry.errors import InvalidPathError, NetworkError
+from geometry.network_candidates import CANDIDATE_CHORD_TOLERANCE_M, candidates_of
+from geometry.network_sites import (
+    END_TOLERANCE_M,
+    Contact,
+    IndexedLine,
+    NetworkSites,
+    Pair,
+    Site,
+    SitesUpdate,
+    contact_order,
+    merge_groups,
+    new_contacts,
+    site_of,
+)
 from geometry.path import JOIN_TOLERANCE_M
 from geometry.primitives import Point, Segment
 
 LineKind = Literal["taxiway", "taxilane", "runway"]
 LINE_KINDS: tuple[LineKind, ...] = ("taxiway", "taxilane", "runway")
 DEFAULT_SNAP_TOLERANCE_M = 0.5
-CANDIDATE_CHORD_TOLERANCE_M = 0.05  # chords only pick candidate pairs; contacts use exact pieces
-END_TOLERANCE_M = 1e-6              # a station this close to a line's end is that end
 
-Pair = tuple[str, str]
 _Neighbours = tuple[str, float, float, float]  # line id, previous, own and next station
 
 
@@ -114,20 +125,6 @@ class Junction:
         raise NetworkError(f"junction {self.id} has no leg {leg_id}")
 
 
-@dataclass(frozen=True, slots=True)
-class Contact:
-    """Where two lines meet (``line_a`` < ``line_b``), before nearby contacts are merged."""
-
-    line_a: str
-    line_b: str
-    point: Point
-    station_a_m: float
-    station_b_m: float
-    a_ends_here: bool
-    b_ends_here: bool
-    crossing: bool
-
-
 @dataclass(frozen=True, slots=True, eq=False)
 class JunctionNetwork:
     """Lines, their junctions, and what :func:`update_network` needs to work incrementally.
@@ -143,181 +140,14 @@ class JunctionNetwork:
     contacts_by_pair: Mapping[Pair, tuple[Contact, ...]]
     contacts_by_junction: Mapping[str, tuple[Contact, ...]]
     neighbours_by_junction: Mapping[str, tuple[_Neighbours, ...]]
+    # Each segment's candidate chords, by the segment's identity: an unchanged line keeps its very
+    # segments, so the next update flattens only the lines that changed.
+    chords_by_segment: Mapping[int, tuple[Segment, shapely.Geometry]] = field(default_factory=dict)
+    # What the next update reuses: sites, candidate trees, stations (shared, never changed).
+    sites: NetworkSites | None = None
 
 
-@dataclass(frozen=True, slots=True, eq=False)
-class _IndexedLine:
-    line: NetworkLine
-    along: centerline.SegmentStations
-
-    def is_end(self, station_m: float) -> bool:
-        return station_m <= END_TOLERANCE_M or station_m >= self.along.length_m - END_TOLERANCE_M
-
-    def point_at_end(self, at_start: bool) -> Point:
-        return self.line.segments[0].start if at_start else self.line.segments[-1].end
-
-
-@dataclass(slots=True)
-class _Candidates:
-    """Pieces of two lines close enough to meet: segment pairs and (end, segment) pairs."""
-
-    segment_pairs: set[tuple[int, int]]
-    ends_near: set[tuple[bool, bool, int]]  # (the end belongs to line a, at its start, other segment)
-
-
-def _candidate_pairs(indexed: Sequence[_IndexedLine], snap_m: float) -> dict[Pair, _Candidates]:
-    owners: list[int] = []
-    pieces: list[int] = []
-    geometries = []
-    for number, item in enumerate(indexed):
-        for piece, segment in enumerate(item.line.segments):
-            owners.append(number)
-            pieces.append(piece)
-            geometries.append(shapely.linestrings(centerline.flatten([segment], CANDIDATE_CHORD_TOLERANCE_M)))
-    tree = shapely.STRtree(geometries)
-    reach_m = snap_m + CANDIDATE_CHORD_TOLERANCE_M
-    found: dict[Pair, _Candidates] = defaultdict(lambda: _Candidates(set(), set()))
-    left, right = tree.query(geometries, predicate="dwithin", distance=reach_m)
-    for i, j in zip(left.tolist(), right.tolist(), strict=True):
-        if owners[i] < owners[j]:
-            pair = (indexed[owners[i]].line.id, indexed[owners[j]].line.id)
-            found[pair].segment_pairs.add((pieces[i], pieces[j]))
-    ends = [(number, at_start) for number in range(len(indexed)) for at_start in (True, False)]
-    end_points = shapely.points([indexed[n].point_at_end(s) for n, s in ends])
-    end_index, piece_index = tree.query(end_points, predicate="dwithin", distance=reach_m)
-    for e, j in zip(end_index.tolist(), piece_index.tolist(), strict=True):
-        owner, at_start = ends[e]
-        if owner != owners[j]:
-            a, b = sorted((owner, owners[j]))
-            pair = (indexed[a].line.id, indexed[b].line.id)
-            found[pair].ends_near.add((owner == a, at_start, pieces[j]))
-    return dict(found)
-
-
-def _contacts_between(a: _IndexedLine, b: _IndexedLine, candidates: _Candidates,
-                      snap_m: float) -> tuple[Contact, ...]:
-    """Exact crossings of two lines, and each end of one lying within the snap tolerance of the other."""
-    contacts = []
-    for piece_a, piece_b in sorted(candidates.segment_pairs):
-        for local_a, local_b, point in centerline.segment_intersections(a.line.segments[piece_a],
-                                                                        b.line.segments[piece_b]):
-            station_a, station_b = a.along.starts_m[piece_a] + local_a, b.along.starts_m[piece_b] + local_b
-            contacts.append(Contact(a.line.id, b.line.id, point, station_a, station_b,
-                                    a.is_end(station_a), b.is_end(station_b), crossing=True))
-    pieces_by_end: dict[tuple[bool, bool], list[int]] = defaultdict(list)
-    for end_on_a, at_start, piece in candidates.ends_near:
-        pieces_by_end[(end_on_a, at_start)].append(piece)
-    for (end_on_a, at_start), pieces in sorted(pieces_by_end.items()):
-        ending, other = (a, b) if end_on_a else (b, a)
-        end_point = ending.point_at_end(at_start)
-        (local, point, distance), piece = min(
-            ((centerline.closest_point_on_segment(other.line.segments[piece], end_point), piece)
-             for piece in sorted(pieces)), key=lambda nearest: nearest[0][2])
-        if distance > snap_m:
-            continue
-        end_station = 0.0 if at_start else ending.along.length_m
-        other_station = other.along.starts_m[piece] + local
-        stations, ends = ((end_station, other_station), (True, other.is_end(other_station)))
-        if not end_on_a:
-            stations, ends = stations[::-1], ends[::-1]
-        contacts.append(Contact(a.line.id, b.line.id, point, *stations, *ends, crossing=False))
-    return tuple(sorted(contacts, key=_contact_order))
-
-
-def _contact_order(contact: Contact) -> tuple[str, str, float, float, float, float]:
-    return (contact.line_a, contact.line_b, contact.station_a_m, contact.station_b_m,
-            contact.point[0], contact.point[1])
-
-
-def _merge_groups(contacts: Sequence[Contact], snap_m: float) -> list[tuple[Contact, ...]]:
-    """Contacts within the snap tolerance of each other, transitively, as groups."""
-    if not contacts:
-        return []
-    points = shapely.points([contact.point for contact in contacts])
-    left, right = shapely.STRtree(points).query(points, predicate="dwithin", distance=snap_m)
-    parent = list(range(len(contacts)))
-
-    def root(i: int) -> int:
-        while parent[i] != i:
-            parent[i] = parent[parent[i]]
-            i = parent[i]
-        return i
-
-    for i, j in zip(left.tolist(), right.tolist(), strict=True):
-        ri, rj = root(i), root(j)
-        if ri != rj:
-            parent[max(ri, rj)] = min(ri, rj)
-    groups: dict[int, list[Contact]] = defaultdict(list)
-    for i, contact in enumerate(contacts):
-        groups[root(i)].append(contact)
-    return [tuple(group) for _, group in sorted(groups.items())]
-
-
-@dataclass(frozen=True, slots=True)
-class _Site:
-    """One merged group of contacts: where a junction will be."""
-
-    contacts: tuple[Contact, ...]
-    point: Point
-    passes: tuple[tuple[str, float], ...]  # (line id, station), one per pass of a line
-    line_ids: tuple[str, ...]
-
-
-def _pass_stations(hits: list[tuple[float, bool]], length_m: float, snap_m: float) -> list[float]:
-    """One station per pass of a line through a site; a pass that touches the line's end is
-    snapped to it, so a line ending at a junction has no stub leg."""
-    runs: list[list[tuple[float, bool]]] = []
-    for hit in sorted(hits):
-        if runs and hit[0] - runs[-1][-1][0] <= 2.0 * snap_m:
-            runs[-1].append(hit)
-        else:
-            runs.append([hit])
-    stations = []
-    for run in runs:
-        ends = [station for station, at_end in run if at_end]
-        if ends:
-            stations.append(0.0 if sum(ends) / len(ends) < length_m / 2.0 else length_m)
-        else:
-            stations.append(sum(station for station, _ in run) / len(run))
-    return stations
-
-
-def _site(group: tuple[Contact, ...], indexed: dict[str, _IndexedLine], snap_m: float) -> _Site:
-    hits: dict[str, list[tuple[float, bool]]] = defaultdict(list)
-    for contact in group:
-        hits[contact.line_a].append((contact.station_a_m, contact.a_ends_here))
-        hits[contact.line_b].append((contact.station_b_m, contact.b_ends_here))
-    passes = tuple((line_id, station) for line_id in sorted(hits)
-                   for station in _pass_stations(hits[line_id], indexed[line_id].along.length_m, snap_m))
-    # A true crossing is exact; the nearest points of ends only say where the junction roughly is.
-    located = [contact.point for contact in group if contact.crossing] or [c.point for c in group]
-    point = (math.fsum(x for x, _ in located) / len(located), math.fsum(y for _, y in located) / len(located))
-    return _Site(group, point, passes, tuple(sorted(hits)))
-
-
-def _site_ids(sites: Sequence[_Site]) -> list[str]:
-    by_lines: dict[tuple[str, ...], list[int]] = defaultdict(list)
-    for number, site in enumerate(sites):
-        by_lines[site.line_ids].append(number)
-    ids = [""] * len(sites)
-    for line_ids, members in by_lines.items():
-        def along_first_line(number: int, first: str = line_ids[0]) -> tuple[float, Point]:
-            site = sites[number]
-            return min(station for line_id, station in site.passes if line_id == first), site.point
-        for ordinal, number in enumerate(sorted(members, key=along_first_line)):
-            ids[number] = f"J:{'/'.join(line_ids)}#{ordinal}"
-    return ids
-
-
-def _stations_by_line(sites: Sequence[_Site]) -> dict[str, tuple[float, ...]]:
-    stations: dict[str, list[float]] = defaultdict(list)
-    for site in sites:
-        for line_id, station in site.passes:
-            stations[line_id].append(station)
-    return {line_id: tuple(sorted(values)) for line_id, values in stations.items()}
-
-
-def _leg(junction_id: str, item: _IndexedLine, station_m: float, direction: Literal[1, -1],
+def _leg(junction_id: str, item: IndexedLine, station_m: float, direction: Literal[1, -1],
          limit_m: float, ordinal: int) -> Leg | None:
     length_m = (limit_m - station_m) * direction
     index = item.along.segment_index(station_m, direction)
@@ -331,7 +161,7 @@ def _leg(junction_id: str, item: _IndexedLine, station_m: float, direction: Lite
                item.along.straight_run_m(index, station_m, direction, limit_m), station_m, direction)
 
 
-def _neighbourhood(site: _Site, indexed: dict[str, _IndexedLine],
+def _neighbourhood(site: Site, indexed: dict[str, IndexedLine],
                    stations_by_line: dict[str, tuple[float, ...]]) -> tuple[_Neighbours, ...]:
     """Each pass of the site with the stations of the previous and next junctions (or the line's
     ends) along its line: everything a junction's legs depend on besides the line itself."""
@@ -346,7 +176,7 @@ def _neighbourhood(site: _Site, indexed: dict[str, _IndexedLine],
 
 
 def _legs(junction_id: str, neighbourhood: tuple[_Neighbours, ...],
-          indexed: dict[str, _IndexedLine]) -> tuple[Leg, ...]:
+          indexed: dict[str, IndexedLine]) -> tuple[Leg, ...]:
     legs: list[Leg] = []
     ordinals: dict[str, int] = defaultdict(int)
     for line_id, before, station, after in neighbourhood:
@@ -359,7 +189,7 @@ def _legs(junction_id: str, neighbourhood: tuple[_Neighbours, ...],
     return tuple(legs)
 
 
-def _kind(site: _Site, legs: Sequence[Leg], indexed: dict[str, _IndexedLine]) -> str:
+def _kind(site: Site, legs: Sequence[Leg], indexed: dict[str, IndexedLine]) -> str:
     kinds = {indexed[line_id].line.kind for line_id in site.line_ids}
     if kinds == {"runway"}:
         return "runway_runway"
@@ -372,31 +202,20 @@ def _kind(site: _Site, legs: Sequence[Leg], indexed: dict[str, _IndexedLine]) ->
     return ("elbow", "tee", "crossing")[min(through, 2)]
 
 
-def _index_lines(lines: Sequence[NetworkLine]) -> dict[str, _IndexedLine]:
-    indexed: dict[str, _IndexedLine] = {}
+def _index_lines(lines: Sequence[NetworkLine], known: Mapping[str, IndexedLine]) -> dict[str, IndexedLine]:
+    indexed: dict[str, IndexedLine] = {}
     for line in sorted(lines, key=lambda line: line.id):
         if line.id in indexed:
             raise NetworkError(f"two lines share the id {line.id}: every line needs its own id")
-        indexed[line.id] = _IndexedLine(line, centerline.SegmentStations.of(line.segments))
+        item = known.get(line.id)
+        if item is None or item.line is not line:
+            item = IndexedLine(line, centerline.SegmentStations.of(line.segments))
+        indexed[line.id] = item
     return indexed
 
 
-def _pair_contacts(indexed: dict[str, _IndexedLine], snap_m: float, previous: JunctionNetwork | None,
-                   changed: set[str]) -> dict[Pair, tuple[Contact, ...]]:
-    contacts_by_pair: dict[Pair, tuple[Contact, ...]] = {}
-    for pair, candidates in sorted(_candidate_pairs(list(indexed.values()), snap_m).items()):
-        if previous is not None and pair[0] not in changed and pair[1] not in changed:
-            found = previous.contacts_by_pair.get(pair, ())
-        else:
-            a, b = indexed[pair[0]], indexed[pair[1]]
-            found = _contacts_between(a, b, candidates, snap_m)
-        if found:
-            contacts_by_pair[pair] = found
-    return contacts_by_pair
-
-
-def _reusable(previous: JunctionNetwork | None, previous_by_id: dict[str, Junction], junction_id: str,
-              site: _Site, neighbourhood: tuple[_Neighbours, ...], changed: set[str]) -> Junction | None:
+def _reusable(previous: JunctionNetwork | None, previous_by_id: Mapping[str, Junction], junction_id: str,
+              site: Site, neighbourhood: tuple[_Neighbours, ...], changed: set[str]) -> Junction | None:
     """The previous network's junction, if nothing it was built from has changed."""
     if (previous is None or previous.contacts_by_junction.get(junction_id) != site.contacts
             or previous.neighbours_by_junction.get(junction_id) != neighbourhood
@@ -409,27 +228,56 @@ def _assemble(lines: Sequence[NetworkLine], snap_m: float, previous: JunctionNet
               changed: set[str]) -> JunctionNetwork:
     if not math.isfinite(snap_m) or snap_m <= 0.0:
         raise NetworkError(f"the snap tolerance must be a positive number of metres, got {snap_m!r}")
-    indexed = _index_lines(lines)
-    contacts_by_pair = _pair_contacts(indexed, snap_m, previous, changed) if indexed else {}
-    contacts = sorted((c for found in contacts_by_pair.values() for c in found), key=_contact_order)
-    sites = [_site(group, indexed, snap_m) for group in _merge_groups(contacts, snap_m)]
-    ids = _site_ids(sites)
-    stations_by_line = _stations_by_line(sites)
-    neighbourhoods = [_neighbourhood(site, indexed, stations_by_line) for site in sites]
-    previous_by_id = {junction.id: junction for junction in previous.junctions} if previous else {}
-    junctions: list[Junction] = []
+    state = previous.sites if previous is not None else None
+    if state is None:
+        previous, changed = None, set()
+    indexed = _index_lines(lines, state.indexed if state is not None else {})
+    if state is None:
+        changed = set(indexed)
+    segments = {line_id: item.line.segments for line_id, item in indexed.items()}
+    candidates, candidate_index = candidates_of(sorted(changed), segments,
+                                                state.candidates if state is not None else None,
+                                                snap_m + CANDIDATE_CHORD_TOLERANCE_M)
+    update = SitesUpdate(state, indexed, snap_m)
+    contacts_by_pair, fresh_contacts = new_contacts(update, previous, changed, candidates)
+    # Sites that lose a contact, or that a new contact comes within the snap tolerance of, merge again.
+    affected: set[str] = set()
+    for line_id in changed:
+        affected.update(update.ids_by_line.get(line_id, ()))
+    for contact in fresh_contacts:
+        affected.update(update.near(contact))
+    removed = [update.remove(junction_id) for junction_id in sorted(affected)]
+    pool = [contact for site in removed for contact in site.contacts
+            if contact.line_a not in changed and contact.line_b not in changed] + fresh_contacts
+    groups = merge_groups(sorted(pool, key=contact_order), snap_m)
+    fresh = [site_of(group, indexed, snap_m) for group in groups]
+    dirty = set(update.name(fresh, removed))
+    for line_id in update.restation(changed):
+        dirty.update(update.ids_by_line.get(line_id, ()))
+    contacts_by_junction = dict(previous.contacts_by_junction) if previous is not None else {}
+    neighbours_by_junction = dict(previous.neighbours_by_junction) if previous is not None else {}
+    for junction_id in update.gone - update.by_id.keys():
+        contacts_by_junction.pop(junction_id, None)
+        neighbours_by_junction.pop(junction_id, None)
+    previous_junctions = state.junctions if state is not None else {}
     recomputed: set[str] = set()
-    for junction_id, site, neighbourhood in zip(ids, sites, neighbourhoods, strict=True):
-        junction = _reusable(previous, previous_by_id, junction_id, site, neighbourhood, changed)
+    for junction_id in sorted(dirty):
+        site = update.by_id[junction_id]
+        neighbourhood = _neighbourhood(site, indexed, update.stations)
+        junction = _reusable(previous, previous_junctions, junction_id, site, neighbourhood, changed)
         if junction is None:
             legs = _legs(junction_id, neighbourhood, indexed)
             junction = Junction(junction_id, site.point, legs, _kind(site, legs, indexed))
             recomputed.add(junction_id)
-        junctions.append(junction)
-    return JunctionNetwork(tuple(item.line for item in indexed.values()), snap_m, tuple(junctions),
-                           frozenset(recomputed), contacts_by_pair,
-                           {junction_id: site.contacts for junction_id, site in zip(ids, sites, strict=True)},
-                           dict(zip(ids, neighbourhoods, strict=True)))
+        update.junctions[junction_id] = junction
+        contacts_by_junction[junction_id] = site.contacts
+        neighbours_by_junction[junction_id] = neighbourhood
+    sites = NetworkSites(indexed, candidate_index, update.by_id, update.ids_by_line, update.cells,
+                         update.stations, tuple(update.order), update.pairs_by_line, update.junctions)
+    return JunctionNetwork(tuple(item.line for item in indexed.values()), snap_m,
+                           tuple(update.junctions[junction_id] for _, junction_id in update.order),
+                           frozenset(recomputed), contacts_by_pair, contacts_by_junction,
+                           neighbours_by_junction, candidate_index.chords, sites)
 
 
 def build_network(lines: Sequence[NetworkLine],

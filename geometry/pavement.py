@@ -71,10 +71,19 @@ def _track(xy: FloatArray, name: str) -> FloatArray:
     return track
 
 
-def _simplified(track: FloatArray, tolerance_m: float) -> FloatArray:
-    if tolerance_m <= 0.0:
-        return track
-    return np.asarray(shapely.get_coordinates(shapely.simplify(LineString(track), tolerance_m)), dtype=float)
+def simplified_tracks(tracks: Sequence[FloatArray], tolerance_m: float) -> list[FloatArray]:
+    """Each (n, 2) track simplified (Douglas-Peucker) by ``tolerance_m``, all in one GEOS call.
+
+    Plain Douglas-Peucker: a track that crosses itself is not protected; :func:`tyre_bands` checks
+    the bands built from simplified tracks and rebuilds an invalid one piecewise.
+    """
+    if tolerance_m <= 0.0 or not tracks:
+        return list(tracks)
+    lengths = [len(track) for track in tracks]
+    lines = shapely.linestrings(np.concatenate(tracks), indices=np.repeat(np.arange(len(tracks)), lengths))
+    simple = shapely.simplify(lines, tolerance_m, preserve_topology=False)
+    coordinates, index = shapely.get_coordinates(simple, return_index=True)
+    return np.split(np.asarray(coordinates, dtype=float), np.searchsorted(index, np.arange(1, len(tracks))))
 
 
 def _band_pieces(left: FloatArray, right: FloatArray, first: int, last: int) -> list[BaseGeometry]:
@@ -117,16 +126,38 @@ def tyre_band(swept: SweptPath, simplify_tolerance_m: float = 0.0) -> Polygonal:
     >>> band.is_valid and band.area > 0
     True
     """
+    return tyre_bands([swept], simplify_tolerance_m)[0]
+
+
+def _edge_tracks(swept: SweptPath) -> tuple[FloatArray, FloatArray]:
     left = _track(swept.gear_left_edge_xy, "left tyre edge")
     right = _track(swept.gear_right_edge_xy, "right tyre edge")
-    band = Polygon(np.vstack((_simplified(left, simplify_tolerance_m),
-                              _simplified(right, simplify_tolerance_m)[::-1])))
-    if band.is_valid:
-        return band
+    if len(left) != len(right):
+        raise GeometryError("the left and right tyre edge tracks need one row per station each")
+    return left, right
+
+
+def _band_from_pieces(left: FloatArray, right: FloatArray, simplify_tolerance_m: float) -> Polygonal:
     merged = shapely.union_all(_band_pieces(left, right, 0, len(left) - 1))
     if simplify_tolerance_m > 0.0:
         merged = shapely.simplify(merged, simplify_tolerance_m, preserve_topology=True)
     return _as_polygonal(merged)
+
+
+def tyre_bands(swept_paths: Sequence[SweptPath], simplify_tolerance_m: float = 0.0) -> list[Polygonal]:
+    """:func:`tyre_band` of each swept path, every step one GEOS call for all of them."""
+    edges = [_edge_tracks(swept) for swept in swept_paths]
+    if not edges:
+        return []
+    simple = simplified_tracks([track for pair in edges for track in pair], simplify_tolerance_m)
+    rings = [np.vstack((left, right[::-1])) for left, right in zip(simple[0::2], simple[1::2], strict=True)]
+    which = np.repeat(np.arange(len(rings)), [len(ring) for ring in rings])
+    bands = shapely.polygons(shapely.linearrings(np.concatenate(rings), indices=which))
+    valid = shapely.is_valid(bands)
+    return [cast(Polygonal, band) if ok else _band_from_pieces(left, right, simplify_tolerance_m)
+            for band, ok, (left, right) in zip(bands, valid, edges, strict=True)]
+
+
 
 
 def required_movement_area(swept: SweptPath, edge_margin_m: float) -> Polygonal:
@@ -143,12 +174,25 @@ def required_movement_area(swept: SweptPath, edge_margin_m: float) -> Polygonal:
     >>> round(area.intersection(shapely.box(0.0, -20.0, 50.0, 20.0)).area, 6)  # 15 m wide
     750.0
     """
-    margin_m = checked_length_m("the edge margin", edge_margin_m, allow_zero=True)
-    band = tyre_band(swept, SIMPLIFY_TOLERANCE_M)
-    if margin_m == 0.0:
-        return band
-    grown = shapely.buffer(band, margin_m, quad_segs=quad_segs_for(margin_m), join_style="round")
-    return _as_polygonal(grown)
+    return required_movement_areas([swept], [edge_margin_m])[0]
+
+
+def required_movement_areas(swept_paths: Sequence[SweptPath],
+                            edge_margins_m: Sequence[float]) -> list[Polygonal]:
+    """:func:`required_movement_area` of each swept path with its own edge margin, every step one
+    GEOS call for all of them (one per distinct margin for the buffer)."""
+    margins_m = [checked_length_m("the edge margin", margin_m, allow_zero=True)
+                 for margin_m in edge_margins_m]
+    if len(margins_m) != len(swept_paths):
+        raise GeometryError("every swept path needs its own edge margin")
+    areas = tyre_bands(swept_paths, SIMPLIFY_TOLERANCE_M)
+    for margin_m in sorted(set(margins_m) - {0.0}):
+        which = [index for index, each_m in enumerate(margins_m) if each_m == margin_m]
+        grown = shapely.buffer([areas[index] for index in which], margin_m, quad_segs=quad_segs_for(margin_m),
+                               join_style="round")
+        for index, area in zip(which, grown, strict=True):
+            areas[index] = _as_polygonal(area)
+    return areas
 
 
 def _centerline_points(centerline: CenterlineLike) -> FloatArray:

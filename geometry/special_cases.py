@@ -178,24 +178,65 @@ def _crossover(ends: tuple[Junction, Junction], connector_id: str,
 
 def find_crossovers(junctions: Sequence[Junction],
                     excluded_movement_keys: Iterable[str] = ()) -> tuple[Crossover, ...]:
-    """Every crossover among ``junctions``; movements in ``excluded_movement_keys`` are not
-    offered when deciding whether a reversal is possible."""
-    excluded = frozenset(excluded_movement_keys)
-    ends_by_line: dict[str, list[tuple[Junction, Leg]]] = defaultdict(list)
-    for junction in junctions:
+    """Every crossover among ``junctions``, in the order of their connectors' ids; movements in
+    ``excluded_movement_keys`` are not offered when deciding whether a reversal is possible."""
+    return CrossoverFinder().find(junctions, excluded_movement_keys)
+
+
+class CrossoverFinder:
+    """:func:`find_crossovers` over successive networks: a crossover depends only on the two
+    junctions at its connector's ends, so only the lines of junctions that are not the previous
+    call's objects are looked at again."""
+
+    def __init__(self) -> None:
+        self._excluded: frozenset[str] | None = None
+        self._junctions: dict[str, Junction] = {}
+        self._ends: dict[str, dict[str, Junction]] = defaultdict(dict)   # line id -> junctions on it
+        self._found: dict[str, Crossover] = {}                           # by connector id
+
+    def find(self, junctions: Sequence[Junction],
+             excluded_movement_keys: Iterable[str] = ()) -> tuple[Crossover, ...]:
+        excluded = frozenset(excluded_movement_keys)
+        if excluded != self._excluded:
+            self._excluded, self._junctions, self._ends, self._found = excluded, {}, defaultdict(dict), {}
+        previous, current = self._junctions, {junction.id: junction for junction in junctions}
+        affected: set[str] = set()
+        for junction_id in previous.keys() - current.keys():
+            self._drop(previous[junction_id], affected)
+        for junction_id, junction in current.items():
+            old = previous.get(junction_id)
+            if old is not junction:
+                if old is not None:
+                    self._drop(old, affected)
+                for leg in junction.legs:
+                    self._ends[leg.line_id][junction_id] = junction
+                    affected.add(leg.line_id)
+        self._junctions = current
+        for line_id in affected:
+            crossover = self._connector(line_id, excluded)
+            if crossover is None:
+                self._found.pop(line_id, None)
+            else:
+                self._found[line_id] = crossover
+        return tuple(crossover for _, crossover in sorted(self._found.items()))
+
+    def _drop(self, junction: Junction, affected: set[str]) -> None:
         for leg in junction.legs:
-            ends_by_line[leg.line_id].append((junction, leg))
-    found = []
-    for line_id, entries in sorted(ends_by_line.items()):
+            self._ends[leg.line_id].pop(junction.id, None)
+            affected.add(leg.line_id)
+
+    def _connector(self, line_id: str, excluded: frozenset[str]) -> Crossover | None:
+        """The crossover ``line_id`` makes, if it is a connector: exactly one leg at each of two
+        junctions, leaving the first along the line and the second against it."""
+        entries = [(junction, leg) for junction in self._ends.get(line_id, {}).values()
+                   for leg in junction.legs if leg.line_id == line_id]
         if len(entries) != 2 or entries[0][0].id == entries[1][0].id:
-            continue  # a connector has exactly one leg at each of its two junctions
-        (start, start_leg), (end, end_leg) = sorted(entries, key=lambda entry: entry[1].station_m)
+            return None
+        (start, start_leg), (end, end_leg) = sorted(
+            entries, key=lambda entry: (entry[1].station_m, entry[0].id, entry[1].id))
         if start_leg.direction != 1 or end_leg.direction != -1 or start_leg.line_kind == "runway":
-            continue
-        crossover = _crossover((start, end), line_id, excluded)
-        if crossover is not None:
-            found.append(crossover)
-    return tuple(found)
+            return None
+        return _crossover((start, end), line_id, excluded)
 
 
 def reversal_path(crossover: Crossover, radius_m: float, lead_in_m: float, lead_out_m: float, *,

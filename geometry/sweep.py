@@ -14,13 +14,17 @@ exactly at each station; there is no stepping integrator. Each segment is cut in
 enough that the coefficients stay of order one (no overflow for long straights) and alpha moves
 by less than a radian per piece (so its angle is read without ambiguity).
 
+:func:`sweep` gives every tracked point and the steering angle (the lateral offsets of the gear
+tracks are measured when first read); :func:`main_gear_track` gives the main gear alone, at the
+same stations and with the same values, for a caller that needs nothing else.
+
 Signs: alpha > 0 and steering > 0 in a left turn; offsets are positive to the left of travel.
 """
 
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from functools import lru_cache
 
 import numpy as np
@@ -36,7 +40,14 @@ from geometry.errors import (
 from geometry.offsets import lateral_offset_m
 from geometry.path import CenterlinePath, standard_turn_path
 from geometry.primitives import Arc, FloatArray
-from geometry.sweep_pieces import Pieces, at_stations, chain_pieces, sample_stations, stations_on_pieces
+from geometry.sweep_pieces import (
+    IntArray,
+    Pieces,
+    at_stations,
+    chain_pieces,
+    sample_stations,
+    stations_on_pieces,
+)
 
 DEFAULT_CHORD_TOLERANCE_M = 0.003  # a track polyline stays within 3 mm of the exact curve
 MIN_CHORD_TOLERANCE_M = 1e-6  # finer tolerances only multiply stations without meaning
@@ -47,12 +58,12 @@ _HALF_PI = math.pi / 2.0
 
 
 @dataclass(frozen=True, slots=True, eq=False)
-class SweptPath:
-    """Tracks of one aircraft along one centerline path, sampled at cockpit stations.
-
-    Every array has one row per station. ``*_xy`` arrays have shape (n, 2). Offsets are
-    signed lateral distances from the centerline path, positive to the left of travel,
-    measured with the path continued along its end tangents (see :mod:`geometry.offsets`).
+class GearTrack:
+    """The main-gear centre of one aircraft along one path, with the cockpit and body angle that
+    place it: what an integrator of the pursuit equation computes, and nothing else. Stations are
+    those :func:`sweep` samples for the same aircraft, so the values are the very ones
+    :class:`SweptPath` (a gear track with every other tracked point) holds. Every array has one
+    row per station; ``*_xy`` arrays are (n, 2).
     """
 
     path: CenterlinePath
@@ -62,6 +73,19 @@ class SweptPath:
     body_heading_rad: FloatArray     # heading of the body axis
     body_angle_rad: FloatArray       # path tangent heading minus body heading (alpha)
     main_gear_xy: FloatArray         # main-gear centre (pursuit curve)
+
+
+@dataclass(frozen=True, slots=True, eq=False)
+class SweptPath(GearTrack):
+    """Tracks of one aircraft along one centerline path, sampled at cockpit stations: the
+    :class:`GearTrack` and every other tracked point, the steering angle and the offsets.
+
+    Every array has one row per station. ``*_xy`` arrays have shape (n, 2). Offsets are
+    signed lateral distances from the centerline path, positive to the left of travel,
+    measured with the path continued along its end tangents (see :mod:`geometry.offsets`); they
+    are measured on first use (the layout analysis never reads them) and kept.
+    """
+
     gear_left_edge_xy: FloatArray    # outer edge of the left outermost main-gear tyre
     gear_right_edge_xy: FloatArray   # outer edge of the right outermost main-gear tyre
     nose_gear_xy: FloatArray
@@ -70,9 +94,31 @@ class SweptPath:
     wingtip_left_xy: FloatArray
     wingtip_right_xy: FloatArray
     steering_rad: FloatArray         # nose-gear steering angle, signed (+ left)
-    gear_offset_m: FloatArray        # main-gear centre offset from the centerline
-    left_edge_offset_m: FloatArray   # offset of gear_left_edge_xy from the centerline
-    right_edge_offset_m: FloatArray  # offset of gear_right_edge_xy from the centerline
+    # The three offset arrays below, once measured (not part of the constructor).
+    _offsets: list[FloatArray] = field(init=False, repr=False, compare=False, default_factory=list)
+
+    @property
+    def gear_offset_m(self) -> FloatArray:
+        """Main-gear centre offset from the centerline."""
+        return self._measured_offsets()[0]
+
+    @property
+    def left_edge_offset_m(self) -> FloatArray:
+        """Offset of :attr:`gear_left_edge_xy` from the centerline."""
+        return self._measured_offsets()[1]
+
+    @property
+    def right_edge_offset_m(self) -> FloatArray:
+        """Offset of :attr:`gear_right_edge_xy` from the centerline."""
+        return self._measured_offsets()[2]
+
+    def _measured_offsets(self) -> list[FloatArray]:
+        if not self._offsets:
+            points = np.concatenate((self.main_gear_xy, self.gear_left_edge_xy, self.gear_right_edge_xy))
+            offsets = lateral_offset_m(self.path, points, extend_ends=True)
+            count = len(self.station_m)
+            self._offsets.extend((offsets[:count], offsets[count:2 * count], offsets[2 * count:]))
+        return self._offsets
 
     @property
     def max_steering_rad(self) -> float:
@@ -95,6 +141,25 @@ class SweptPath:
     def max_gear_deviation_m(self) -> float:
         """Largest distance of the main-gear centre from the centerline (zero on a straight)."""
         return float(np.max(np.abs(self.gear_offset_m)))
+
+
+def main_gear_track(path: CenterlinePath, aircraft: DesignAircraft, *,
+                    chord_tolerance_m: float = DEFAULT_CHORD_TOLERANCE_M,
+                    initial_body_angle_rad: float = 0.0) -> GearTrack:
+    """The main-gear track alone: :func:`sweep` without the other tracked points, the offsets and
+    the steering angle, for a caller that needs only where the gear rolls. Same arguments, stations,
+    values and errors as :func:`sweep`.
+
+    Examples
+    --------
+    >>> from geometry.path import standard_turn_path
+    >>> from geometry.theoretical import theoretical_airplane
+    >>> plane, path = theoretical_airplane("3"), standard_turn_path(40.0, math.pi / 2, 60.0, 200.0)
+    >>> gear = main_gear_track(path, plane)
+    >>> bool(np.array_equal(gear.main_gear_xy, sweep(path, plane).main_gear_xy))
+    True
+    """
+    return _sampled_frame(path, aircraft, chord_tolerance_m, initial_body_angle_rad)[0]
 
 
 def sweep(path: CenterlinePath, aircraft: DesignAircraft, *,
@@ -124,10 +189,7 @@ def sweep(path: CenterlinePath, aircraft: DesignAircraft, *,
     >>> round(swept.max_gear_deviation_m, 3)  # settled on the arc: 60 - sqrt(60^2 - 20^2)
     3.431
     """
-    _check_chord_tolerance(chord_tolerance_m)
-    pieces = _chain_pieces(path, aircraft, initial_body_angle_rad)
-    station_m, which, local_m = sample_stations(pieces, _body_points(aircraft)[1], chord_tolerance_m)
-    return _swept_path(path, aircraft, station_m, *at_stations(pieces, which, local_m))
+    return _swept_path(*_sampled_frame(path, aircraft, chord_tolerance_m, initial_body_angle_rad))
 
 
 def sweep_at_stations(path: CenterlinePath, aircraft: DesignAircraft, station_m: FloatArray, *,
@@ -142,7 +204,7 @@ def sweep_at_stations(path: CenterlinePath, aircraft: DesignAircraft, station_m:
         raise GeometryError(f"stations must lie between 0 and the path length {path.length_m:.3f} m")
     pieces = _chain_pieces(path, aircraft, initial_body_angle_rad)
     which, local_m = stations_on_pieces(pieces, stations)
-    return _swept_path(path, aircraft, stations, *at_stations(pieces, which, local_m))
+    return _swept_path(*_body_frame(path, aircraft, stations, pieces, which, local_m))
 
 
 def steering_angle_rad(aircraft: DesignAircraft, body_angle_rad: FloatArray) -> FloatArray:
@@ -241,33 +303,56 @@ def _body_points(aircraft: DesignAircraft) -> tuple[FloatArray, float]:
     return points, float(np.max(np.abs(points).sum(axis=1)))
 
 
-# The tracks built from body points, in _body_points order; the cockpit (last body point) is not
-# among them: it is the path's own point.
-_TRACKS = ("main_gear_xy", "gear_left_edge_xy", "gear_right_edge_xy", "nose_gear_xy", "nose_xy", "tail_xy",
-           "wingtip_left_xy", "wingtip_right_xy")
-_OFFSET_TRACKS = 3  # main gear centre and the two outer tyre edges
+def _sampled_frame(path: CenterlinePath, aircraft: DesignAircraft, chord_tolerance_m: float,
+                   alpha0_rad: float) -> tuple[GearTrack, FloatArray]:
+    """The gear track and body frame at the stations :func:`sweep` samples (see :func:`_body_frame`)."""
+    _check_chord_tolerance(chord_tolerance_m)
+    pieces = _chain_pieces(path, aircraft, alpha0_rad)
+    station_m, which, local_m = sample_stations(pieces, _body_points(aircraft)[1], chord_tolerance_m)
+    return _body_frame(path, aircraft, station_m, pieces, which, local_m)
 
 
-def _swept_path(path: CenterlinePath, aircraft: DesignAircraft, station_m: FloatArray, alpha_rad: FloatArray,
-                cockpit_xy: FloatArray, tangent_heading_rad: FloatArray) -> SweptPath:
-    body_heading_rad = tangent_heading_rad - alpha_rad
-    count = len(station_m)
-    # The body frame at every station: basis[0] forward (cos, sin), basis[1] left (-sin, cos).
-    basis = np.empty((2, count, 2))
+def _body_frame(path: CenterlinePath, aircraft: DesignAircraft, station_m: FloatArray, pieces: Pieces,
+                which: IntArray, local_m: FloatArray) -> tuple[GearTrack, FloatArray]:
+    """The gear track at the given stations, and the body frame there: basis[0] forward
+    (cos, sin), basis[1] left (-sin, cos), shape (2, stations, 2)."""
+    alpha_rad, cockpit_xy, body_heading_rad = at_stations(pieces, which, local_m)
+    body_heading_rad -= alpha_rad  # the path tangent's heading, turned into the body's
+    basis = np.empty((2, len(station_m), 2))
     np.cos(body_heading_rad, out=basis[0, :, 0])
     np.sin(body_heading_rad, out=basis[0, :, 1])
     np.negative(basis[0, :, 1], out=basis[1, :, 0])
     basis[1, :, 1] = basis[0, :, 0]
     main_gear_xy = cockpit_xy - aircraft.cmg_m * basis[0]
-    # Every tracked point at once, one small matrix product: (tracks, stations, 2), each track a
-    # contiguous slice.
-    tracks = (_body_points(aircraft)[0][:-1] @ basis.reshape(2, -1)).reshape(-1, count, 2)
-    tracks += main_gear_xy
-    tracks[0] = main_gear_xy
-    offsets = lateral_offset_m(path, tracks[:_OFFSET_TRACKS].reshape(-1, 2), extend_ends=True)
+    return GearTrack(path, aircraft, station_m, cockpit_xy, body_heading_rad, alpha_rad, main_gear_xy), basis
+
+
+# The tracks built from body points, in _body_points order; the cockpit (last body point) is not
+# among them: it is the path's own point.
+_TRACKS = ("main_gear_xy", "gear_left_edge_xy", "gear_right_edge_xy", "nose_gear_xy", "nose_xy", "tail_xy",
+           "wingtip_left_xy", "wingtip_right_xy")
+
+
+def _swept_path(gear: GearTrack, basis: FloatArray) -> SweptPath:
+    aircraft, count = gear.aircraft, len(gear.station_m)
+    # Every other tracked point at once, one small matrix product: (tracks, stations, 2), each
+    # track a contiguous slice; the main gear (the body frame's origin) is the gear track's own.
+    tracks = np.empty((len(_TRACKS), count, 2))
+    others = tracks[1:].reshape(len(_TRACKS) - 1, -1)  # a view: the product is written into tracks
+    np.matmul(_body_points(aircraft)[0][1:-1], basis.reshape(2, -1), out=others)
+    tracks[1:] += gear.main_gear_xy
+    tracks[0] = gear.main_gear_xy
     return SweptPath(
-        path=path, aircraft=aircraft, station_m=station_m, cockpit_xy=cockpit_xy,
-        body_heading_rad=body_heading_rad, body_angle_rad=alpha_rad,
-        steering_rad=steering_angle_rad(aircraft, alpha_rad),
-        gear_offset_m=offsets[:count], left_edge_offset_m=offsets[count:2 * count],
-        right_edge_offset_m=offsets[2 * count:], **dict(zip(_TRACKS, tracks, strict=True)))
+        path=gear.path, aircraft=aircraft, station_m=gear.station_m, cockpit_xy=gear.cockpit_xy,
+        body_heading_rad=gear.body_heading_rad, body_angle_rad=gear.body_angle_rad,
+        steering_rad=_steering_within_right_angle_rad(aircraft, gear.body_angle_rad),
+        **dict(zip(_TRACKS, tracks, strict=True)))
+
+
+def _steering_within_right_angle_rad(aircraft: DesignAircraft, body_angle_rad: FloatArray) -> FloatArray:
+    """:func:`steering_angle_rad` where |alpha| < 90 degrees (every body angle a sweep reaches):
+    d cos(alpha) > 0 there, so atan2(WB sin(alpha), d cos(alpha)) = atan((WB / d) tan(alpha)),
+    two transcendental calls instead of three."""
+    steering = np.tan(body_angle_rad)
+    steering *= aircraft.wheelbase_m / aircraft.cmg_m
+    return np.asarray(np.arctan(steering, out=steering), dtype=float)

@@ -27,11 +27,11 @@ IntArray = npt.NDArray[np.intp]
 class Pieces:
     """Pieces of constant curvature and the body angle alpha at each piece boundary.
 
-    ``table`` holds, per piece, what a station needs (one row each): the closed form's constants
-    (start alpha, m2 = (1/d^2 - kappa^2)/4, k = sqrt|m2|, 1/k (0 where m2 == 0),
-    (kappa - sin(alpha0)/d)/2, cos(alpha0)/(2 d)) and the cockpit's start (x, y, heading) and
-    the curvature, from which the cockpit anywhere on the piece follows exactly (the chord of an
-    arc, or a straight).
+    ``table`` holds, per piece, what a station needs (one row per piece, one column per value):
+    the closed form's constants (start alpha, m2 = (1/d^2 - kappa^2)/4, k = sqrt|m2|, 1/k (0 where
+    m2 == 0), (kappa - sin(alpha0)/d)/2, cos(alpha0)/(2 d)) and the cockpit's start (x, y,
+    heading), kappa/2, 2/kappa (0 on a straight) and 1 on a straight (0 on an arc), from which the
+    cockpit anywhere on the piece follows exactly (the chord of an arc, or a straight).
     """
 
     starts_m: list[float]
@@ -40,7 +40,7 @@ class Pieces:
     alphas_rad: list[float]  # one more than pieces: every piece boundary, in order
     cmg_m: float
     path_length_m: float
-    table: FloatArray        # shape (10, pieces)
+    table: FloatArray        # shape (pieces, 12)
     all_hyperbolic: bool     # m2 > 0 on every piece (straights, arcs wider than d): the usual case
 
 
@@ -51,35 +51,40 @@ def piece_limit_m(curvature_per_m: float, cmg_m: float) -> float:
     return cmg_m / (1.0 + abs(curvature_per_m) * cmg_m)
 
 
-def _piece_constants(kappa: float, alpha0_rad: float, d: float) -> tuple[float, ...]:
+def _segment_flow(kappa: float, d: float, piece_m: float) -> tuple[float, float, float, float, float]:
+    """What the closed form needs on every piece of one segment, whatever alpha: m2, k, 1/k (0
+    where m2 == 0), and c, g over a whole piece: exp(A s) = c I + g A at s = ``piece_m``."""
     inverse_d, kappa_abs = 1.0 / d, abs(kappa)
     m2 = (inverse_d - kappa_abs) * (inverse_d + kappa_abs) / 4.0  # factored: R == d gives exactly zero
     root = math.sqrt(abs(m2))
-    return (alpha0_rad, m2, root, 1.0 / root if root > 0.0 else 0.0,
-            (kappa - math.sin(alpha0_rad) / d) / 2.0, math.cos(alpha0_rad) / (2.0 * d))
-
-
-def _alpha_after(constants: tuple[float, ...], s_m: float) -> float:
-    """alpha at distance ``s_m`` into a piece: exp(A s) = c I + g A applied to the half angle."""
-    alpha0, m2, root, inverse_root, rate_half, cos_half = constants[:6]
+    inverse_root = 1.0 / root if root > 0.0 else 0.0
     if m2 > 0.0:
-        c, g = math.cosh(root * s_m), math.sinh(root * s_m) * inverse_root
+        c, g = math.cosh(root * piece_m), math.sinh(root * piece_m) * inverse_root
     elif m2 < 0.0:
-        c, g = math.cos(root * s_m), math.sin(root * s_m) * inverse_root
+        c, g = math.cos(root * piece_m), math.sin(root * piece_m) * inverse_root
     else:
-        c, g = 1.0, s_m
-    return alpha0 + 2.0 * math.atan2(g * rate_half, c + g * cos_half)
+        c, g = 1.0, piece_m
+    return m2, root, inverse_root, c, g
 
 
-def _piece_start(segment: Segment, local_m: float) -> tuple[float, float, float]:
-    """Point and heading at ``local_m`` into a segment, by the segment's own formulas."""
+def _piece_start(segment: Segment, center: tuple[float, float], local_m: float) -> tuple[float, float, float]:
+    """Point and heading at ``local_m`` into a segment (``center``: an arc's centre, computed once
+    per segment), by the segment's own formulas."""
     if isinstance(segment, Straight):
         return (segment.start[0] + local_m * math.cos(segment.heading_rad),
                 segment.start[1] + local_m * math.sin(segment.heading_rad), segment.heading_rad)
     heading = segment.start_heading_rad + local_m * segment.curvature_per_m
     polar = heading - segment.side * math.pi / 2.0
-    cx, cy = segment.center
+    cx, cy = center
     return cx + segment.radius_m * math.cos(polar), cy + segment.radius_m * math.sin(polar), heading
+
+
+def _chord_columns(kappa: float) -> tuple[float, float, float]:
+    """kappa/2, 2/kappa (0 on a straight) and 1 on a straight (0 on an arc): the chord of a piece
+    at distance s is (2/kappa) sin(kappa s/2) on an arc and s on a straight, one formula for both."""
+    if kappa == 0.0:
+        return 0.0, 0.0, 1.0
+    return 0.5 * kappa, 2.0 / kappa, 0.0
 
 
 def chain_pieces(path: CenterlinePath, cmg_m: float, alpha0_rad: float,
@@ -91,20 +96,28 @@ def chain_pieces(path: CenterlinePath, cmg_m: float, alpha0_rad: float,
     curvatures: list[float] = []
     rows: list[tuple[float, ...]] = []
     alphas = [alpha0_rad]
-    for segment, segment_start_m in zip(path.segments, path.arrays.starts_m.tolist(), strict=True):
-        kappa = segment.curvature_per_m
-        count = max(1, math.ceil(segment.length_m / piece_limit_m(kappa, cmg_m)))
-        piece_m = segment.length_m / count
+    segment_start_m = 0.0  # a running sum, as np.cumsum gives it: the path's own segment starts
+    for segment in path.segments:
+        kappa, segment_length_m = segment.curvature_per_m, segment.length_m
+        center = (0.0, 0.0) if isinstance(segment, Straight) else segment.center
+        chord_columns = _chord_columns(kappa)
+        count = max(1, math.ceil(segment_length_m / piece_limit_m(kappa, cmg_m)))
+        piece_m = segment_length_m / count
+        m2, root, inverse_root, c, g = _segment_flow(kappa, cmg_m, piece_m)
         for index in range(count):
             starts.append(segment_start_m + index * piece_m)
             lengths.append(piece_m)
             curvatures.append(kappa)
-            constants = _piece_constants(kappa, alphas[-1], cmg_m)
-            rows.append((*constants, *_piece_start(segment, index * piece_m), kappa))
-            alphas.append(_alpha_after(constants, piece_m))
+            alpha0 = alphas[-1]
+            rate_half, cos_half = (kappa - math.sin(alpha0) / cmg_m) / 2.0, math.cos(alpha0) / (2.0 * cmg_m)
+            rows.append((alpha0, m2, root, inverse_root, rate_half, cos_half,
+                         *_piece_start(segment, center, index * piece_m), *chord_columns))
+            # alpha at the piece's end: exp(A s) = c I + g A applied to the half angle
+            alphas.append(alpha0 + 2.0 * math.atan2(g * rate_half, c + g * cos_half))
             if abs(alphas[-1]) >= HALF_PI:
                 raise rolls_backwards(segment)
-    table = np.array(rows, dtype=float).T.copy()
+        segment_start_m += segment_length_m
+    table = np.array(rows, dtype=float)
     return Pieces(starts, lengths, curvatures, alphas, cmg_m, path.length_m, table,
                   all(row[1] > 0.0 for row in rows))
 
@@ -120,10 +133,10 @@ def _piece_counts(pieces: Pieces, reach_m: float, chord_tolerance_m: float) -> l
     <= r + t + reach (r/d + t^2), reach the largest |a| + |b| of the tracked points.
     """
     d = pieces.cmg_m
+    sines = [math.sin(alpha) for alpha in pieces.alphas_rad]  # once per piece boundary
     counts = []
-    for kappa, length_m, alpha0, alpha1 in zip(pieces.curvatures_per_m, pieces.lengths_m, pieces.alphas_rad,
-                                               pieces.alphas_rad[1:], strict=False):
-        sin0, sin1 = math.sin(alpha0), math.sin(alpha1)
+    for kappa, length_m, sin0, sin1 in zip(pieces.curvatures_per_m, pieces.lengths_m, sines, sines[1:],
+                                           strict=False):
         rate = max(abs(kappa - sin0 / d), abs(kappa - sin1 / d))
         turn = max(abs(sin0), abs(sin1)) / d
         bound = rate + turn + reach_m * (rate / d + turn * turn)
@@ -141,11 +154,14 @@ def sample_stations(pieces: Pieces, reach_m: float, chord_tolerance_m: float
         firsts.append(firsts[-1] + count)
     steps = [length / count for length, count in zip(pieces.lengths_m, counts, strict=True)]
     counts[-1] += 1  # the path end: one step past the last piece's last station
-    which = np.repeat(np.arange(len(counts)), counts)
-    local_m = (np.arange(len(which)) - np.repeat(firsts, counts)) * np.repeat(steps, counts)
-    stations = np.repeat(pieces.starts_m, counts) + local_m
+    # One repeat of a (3, pieces) table: each station's piece start, first station and step.
+    start_m, first, step_m = np.repeat(np.array((pieces.starts_m, firsts, steps)), counts, axis=1)
+    local_m = np.arange(len(first), dtype=float)
+    local_m -= first
+    local_m *= step_m
+    stations = start_m + local_m
     stations[-1] = pieces.path_length_m
-    return stations, which, local_m
+    return stations, np.repeat(np.arange(len(counts)), counts), local_m
 
 
 def stations_on_pieces(pieces: Pieces, station_m: FloatArray) -> tuple[IntArray, FloatArray]:
@@ -163,26 +179,34 @@ def at_stations(pieces: Pieces, which: IntArray,
 
     g = sinh(k s)/k (m2 = k^2 > 0), sin(k s)/k (m2 = -k^2 < 0) or s (m2 = 0): written with 1/k
     per piece, so there is no 0/0 at a piece start. The cockpit moves by the chord of its piece:
-    length s sin(kappa s/2)/(kappa s/2) along the heading at mid-piece, h0 + kappa s/2 (s when
-    kappa = 0).
+    length (2/kappa) sin(kappa s/2) (s when kappa = 0) along the heading at mid-piece,
+    h0 + kappa s/2. Stations are gathered once from the piece table; the rest is whole-array
+    arithmetic, in place where an intermediate is not needed again.
     """
-    gathered = np.take(pieces.table, which, axis=1)
-    alpha0, m2, root, inverse_root, rate_half, cos_half, x0, y0, h0, kappa = gathered
+    (alpha0, m2, root, inverse_root, rate_half, cos_half, x0, y0, h0, half_kappa, chord_scale,
+     straight) = pieces.table.take(which, axis=0).T
     angle = root * local_m
     if pieces.all_hyperbolic:
-        c, g = np.cosh(angle), np.sinh(angle) * inverse_root
+        c, g = np.cosh(angle), np.sinh(angle)
+        g *= inverse_root
     else:
         c, g = np.ones_like(local_m), local_m.copy()  # the m2 == 0 case
         for family, cos_like, sin_like in ((m2 > 0.0, np.cosh, np.sinh), (m2 < 0.0, np.cos, np.sin)):
             np.copyto(c, cos_like(angle), where=family)
             np.copyto(g, sin_like(angle) * inverse_root, where=family)
     # Denominator > 0 on every piece (c > 0, g >= 0, |alpha0| < pi/2): atan2 stays unambiguous.
-    alpha = alpha0 + 2.0 * np.arctan2(g * rate_half, c + g * cos_half)
-    half_turn = 0.5 * kappa * local_m
-    chord = np.divide(np.sin(half_turn), half_turn, out=np.ones_like(half_turn), where=half_turn != 0.0)
-    chord *= local_m
+    c += g * cos_half
+    g *= rate_half
+    alpha = np.arctan2(g, c)
+    alpha *= 2.0
+    alpha += alpha0
+    half_turn = half_kappa * local_m
+    chord = np.sin(half_turn)
+    chord *= chord_scale
+    chord += straight * local_m
     cockpit = np.empty((len(local_m), 2))
     mid_heading = h0 + half_turn
     np.add(x0, chord * np.cos(mid_heading), out=cockpit[:, 0])
     np.add(y0, chord * np.sin(mid_heading), out=cockpit[:, 1])
-    return np.asarray(alpha, dtype=float), cockpit, np.asarray(mid_heading + half_turn, dtype=float)
+    mid_heading += half_turn
+    return alpha, cockpit, mid_heading

@@ -27,21 +27,33 @@ BoolArray = npt.NDArray[np.bool_]
 Ring = FloatArray                             # (n, 2), the first point not repeated at the end
 PolygonRings = tuple[Ring, tuple[Ring, ...]]  # exterior, holes
 ARC_KEY_DECIMALS = 6                          # arcs equal to a micrometre are one arc
+ROUNDING_SHARE = 50.0  # rounding moves a point by at most sqrt(2) / 2 / 50 (1/70) of the simplification
 
 
 def finite_runs(xy: FloatArray) -> list[FloatArray]:
     """Pieces of a polyline between non-finite rows, each of at least two points."""
     rows = np.asarray(xy, dtype=float).reshape(-1, 2)
-    breaks = np.flatnonzero(~np.all(np.isfinite(rows), axis=1))
+    finite = np.isfinite(rows)
+    if finite.all():  # the usual case, a third of the time of splitting
+        return [rows] if len(rows) >= 2 else []
+    breaks = np.flatnonzero(~np.all(finite, axis=1))
     runs = [piece[np.all(np.isfinite(piece), axis=1)] for piece in np.split(rows, breaks)]
     return [run for run in runs if len(run) >= 2]
 
 
+def coordinate_decimals(tolerance: float) -> int:
+    """Decimals a simplified polyline is written with: the power of ten at most
+    1 / :data:`ROUNDING_SHARE` of ``tolerance``, so rounding moves a point far less than the
+    simplification may (and the file holds ``1234.5678``, not ``1234.567812345678``)."""
+    return max(0, math.ceil(round(-math.log10(tolerance / ROUNDING_SHARE), 9)))  # 1e-4 is 4, not 5
+
+
 def simplified(xy: FloatArray, tolerance: float) -> FloatArray | None:
-    """Douglas-Peucker: every dropped point lies within ``tolerance`` of the result; None when
-    fewer than two distinct points remain."""
+    """Douglas-Peucker: every dropped point lies within ``tolerance`` of the result, whose
+    coordinates are rounded to :func:`coordinate_decimals`; None when fewer than two distinct
+    points remain."""
     line = shapely.simplify(shapely.linestrings(xy), tolerance, preserve_topology=False)
-    coords = shapely.get_coordinates(line)
+    coords = np.round(shapely.get_coordinates(line), coordinate_decimals(tolerance))
     return coords if len(coords) >= 2 else None
 
 
@@ -201,7 +213,10 @@ def label_anchor(points_m: list[tuple[float, float]], avoid_m: list[tuple[float,
     if len(finite) < 2 or shapely.LineString(finite).length == 0.0:
         return None
     line = shapely.LineString(finite)
-    free = line.difference(shapely.MultiPoint(avoid_m).buffer(clearance_m)) if avoid_m else line
+    # Only the points within reach can cut the line; a large layout has thousands of others.
+    gaps_m = shapely.distance(shapely.points(np.asarray(avoid_m, dtype=float).reshape(-1, 2)), line)
+    near = [xy for xy, gap_m in zip(avoid_m, gaps_m, strict=True) if gap_m <= clearance_m]
+    free = line.difference(shapely.MultiPoint(near).buffer(clearance_m)) if near else line
     stretches = [part for part in getattr(free, "geoms", [free]) if part.geom_type == "LineString"]
     stretches = [part for part in stretches if part.length > 0.0] or [line]
     longest = max(stretches, key=lambda part: part.length)

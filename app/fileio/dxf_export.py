@@ -2,9 +2,10 @@
 
 The drawing is in the layout's units (feet or metres; the model is in metres). Exact curves
 stay exact: centerline corners are LWPOLYLINE bulges, turn and fillet arcs are ARC entities.
-Dense arrays (tyre and wingtip tracks, pavement outlines) become LWPOLYLINEs simplified with
-half of :data:`CHORD_TOLERANCE`, so they stay within it of the curves they stand for. The file
-is rendered in memory and written atomically. Layers, styles and sizes: docs/dxf.md.
+Dense arrays (pavement outlines) become LWPOLYLINEs simplified with half of
+:data:`CHORD_TOLERANCE`, so they stay within it of the curves they stand for. Tyre and wingtip
+tracks are guides: they are drawn within the coarser :data:`TRACK_TOLERANCE`. The file is
+rendered in memory and written atomically. Layers, styles and sizes: docs/dxf.md.
 """
 
 from __future__ import annotations
@@ -25,10 +26,15 @@ from app.fileio.dxf_layers import DXF_LAYERS, aircraft_tokens, select_layers
 from app.fileio.dxf_style import DxfSheet, drawing_scale, format_length, new_drawing
 from app.model.elements import Layout
 from app.model.results import AircraftTracks, ArcRecord, LayoutResult
+from geometry.sweep import DEFAULT_CHORD_TOLERANCE_M
 from geometry.units import LengthUnit, from_metres
 
 CHORD_TOLERANCE = {"ft": 0.01, "m": 0.003}  # drawing units: polyline to true curve, at most
 SIMPLIFY_SHARE = 0.5  # the input arrays may already carry the other half from their own sampling
+# Tracks are guides, not edges a contractor sets out: 0.03 ft (9 mm) or 10 mm from the true curve,
+# far below a pen width on any sheet that holds a layout (common practice, no source). The engine
+# samples them within DEFAULT_CHORD_TOLERANCE_M; the simplification takes the rest.
+TRACK_TOLERANCE = {"ft": 0.03, "m": 0.01}  # drawing units: drawn track to true track, at most
 SAFETY_CAUTION = ("Preliminary planning layout only. Verify against the governing standard, local codes "
                   "and the aircraft manufacturers' data. Final design by a licensed engineer.")
 UNIT_NAMES = {"ft": "feet (international foot, 0.3048 m)", "m": "metres"}
@@ -145,6 +151,11 @@ class _Drafting:
         """Simplification tolerance, drawing units."""
         return CHORD_TOLERANCE[self.sheet.units] * SIMPLIFY_SHARE
 
+    @property
+    def track_tolerance(self) -> float:
+        """Simplification tolerance of the tracks, drawing units: what the sampling leaves."""
+        return track_simplify_tolerance(self.sheet.units)
+
     def xy(self, points_m: object) -> FloatArray:
         return np.asarray(points_m, dtype=float).reshape(-1, 2) * self.units_per_m
 
@@ -168,9 +179,16 @@ def _outline(key: str, geometry: BaseGeometry | None, drafting: _Drafting) -> No
             drafting.sheet.polyline(key, ring, closed=True)
 
 
-def _polyline_simplified(key: str, xy: FloatArray, drafting: _Drafting, aircraft: str | None = None) -> None:
+def track_simplify_tolerance(units: LengthUnit) -> float:
+    """How far the simplification may move a track, drawing units: :data:`TRACK_TOLERANCE` less
+    the engine's own sampling (geometry.sweep.DEFAULT_CHORD_TOLERANCE_M)."""
+    return TRACK_TOLERANCE[units] - from_metres(DEFAULT_CHORD_TOLERANCE_M, units)
+
+
+def _polyline_simplified(key: str, xy: FloatArray, drafting: _Drafting, aircraft: str | None = None,
+                         tolerance: float | None = None) -> None:
     for run in content.finite_runs(xy):
-        line = content.simplified(run, drafting.tolerance)
+        line = content.simplified(run, drafting.tolerance if tolerance is None else tolerance)
         if line is not None:
             drafting.sheet.polyline(key, line, aircraft=aircraft)
 
@@ -240,7 +258,8 @@ def _write_tracks(key: str, drafting: _Drafting, result: LayoutResult,
     for aircraft_name, token in drafting.tokens.items():
         for tracks in content.tracks_of(result, aircraft_name):
             for track in pick(tracks):
-                _polyline_simplified(key, drafting.xy(track), drafting, aircraft=token)
+                _polyline_simplified(key, drafting.xy(track), drafting, aircraft=token,
+                                     tolerance=drafting.track_tolerance)
 
 
 def _write_objects(drafting: _Drafting, layout: Layout, result: LayoutResult) -> None:
@@ -354,6 +373,9 @@ def notes_lines(layout: Layout, result: LayoutResult) -> list[str]:
               for a in layout.fleet] or ["  none"]
     lines += [f"Total pavement {result.total_area_m2 / m2_per_unit:,.0f} {area_name}; "
               f"new pavement {result.new_area_m2 / m2_per_unit:,.0f} {area_name}"]
+    lines += [f"Drafting accuracy: pavement, fillets and centerlines within {CHORD_TOLERANCE[units]:g} "
+              f"{units} of the design, arcs exact; tyre and wingtip tracks (guides) within "
+              f"{TRACK_TOLERANCE[units]:g} {units}"]
     lines += [line for line in layout.notes.splitlines() if line.strip()]
     return [*lines, f"CAUTION: {SAFETY_CAUTION}"]
 

@@ -16,15 +16,15 @@ import shapely
 from shapely.geometry import Polygon
 from shapely.geometry.base import BaseGeometry
 
-from app.model.bends import Bend, Reversal, find_bends
-from app.model.check_inputs import build_check_inputs
+from app.model.bends import Bend, BendFinder, Reversal
+from app.model.check_inputs import CheckInputsBuilder
 from app.model.design_context import DesignContext, context_for, default_radius_m, line_width_m, rules_problem
 from app.model.elements import Centerline, Layout, Runway
 from app.model.junction_analysis import LEAD_IN_IN_CMG, LEAD_OUT_IN_CMG, JunctionInputs, analyze_junction
 from app.model.results import JunctionResult, LayoutResult
-from app.model.unions import IncrementalUnion
+from app.model.unions import LazyGeometry, TiledUnion
 from geometry.centerline import centerline_segments, flatten
-from geometry.checks import run_checks
+from geometry.checks import IncrementalChecks
 from geometry.errors import GeometryError
 from geometry.findings import Finding, Severity
 from geometry.movements import junction_movements
@@ -65,8 +65,12 @@ class LayoutAnalyzer:
         self._network: JunctionNetwork | None = None
         self._last_findings: tuple[Finding, ...] | None = None
         self._key_memo: dict[tuple[object, ...], tuple[Junction, tuple[object, ...]]] = {}
-        self._straight_union = IncrementalUnion()
-        self._total_union = IncrementalUnion()
+        self._lines: dict[tuple[object, ...], NetworkLine] = {}
+        self._bends = BendFinder()
+        self._check_inputs = CheckInputsBuilder()
+        self._checks = IncrementalChecks()
+        self._total_union = TiledUnion()
+        self._existing: tuple[tuple[object, ...], BaseGeometry] | None = None
         self.last_recomputed_junctions = 0
 
     # -- lines -----------------------------------------------------------------------------
@@ -86,6 +90,14 @@ class LayoutAnalyzer:
             found = self._straights[key] = straight_pavement(segments, width_m)
         return found
 
+    def _network_line(self, line_id: str, kind: str, segments: tuple[Segment, ...]) -> NetworkLine:
+        """The same object for an unchanged line, so the network and the checks see it unchanged."""
+        key = (line_id, kind, id(segments))
+        found = self._lines.get(key)
+        if found is None or found.segments is not segments:
+            found = self._lines[key] = NetworkLine(line_id, kind, segments)  # type: ignore[arg-type]
+        return found
+
     def _polyline_of(self, segments: tuple[Segment, ...]) -> np.ndarray:
         found = self._polylines.get(segments)  # type: ignore[call-overload]
         if found is None:
@@ -103,7 +115,8 @@ class LayoutAnalyzer:
         return found[1]
 
     def _prune(self, limit: int = 20000) -> None:
-        for cache in (self._geometry, self._straights, self._polylines, self._junctions, self._key_memo):
+        for cache in (self._geometry, self._straights, self._polylines, self._junctions, self._key_memo,
+                      self._lines):
             if len(cache) > limit:
                 cache.clear()
 
@@ -125,7 +138,7 @@ class LayoutAnalyzer:
             geometry = self._geometry_of(element)
             geometries[element.id] = geometry
             kind = element.kind if isinstance(element, Centerline) else "runway"
-            lines.append(NetworkLine(element.id, kind, geometry.segments))
+            lines.append(self._network_line(element.id, kind, geometry.segments))
             if geometry.problem:
                 findings.append(_finding("E-CORNER-FIT", geometry.problem, (element.id,),
                                          element.vertices[0].xy, "corner radius fits the centerline"))
@@ -139,8 +152,8 @@ class LayoutAnalyzer:
                    else update_network(self._network, lines))
         self._network = network
         straights = {line.id: self._straight_of(line.segments, widths[line.id]) for line in lines}
-        bends, reversals = find_bends(layout.centerlines, [j.point for j in network.junctions],
-                                      network.snap_tolerance_m)
+        bends, reversals = self._bends.find(layout.centerlines, [j.point for j in network.junctions],
+                                            network.snap_tolerance_m)
         findings.extend(_reversal_finding(reversal) for reversal in reversals)
         junctions, problems = self._junction_results(layout, network, bends, context, widths, straights,
                                                      with_findings)
@@ -188,20 +201,29 @@ class LayoutAnalyzer:
                   geometries: dict[str, LineGeometry], widths: dict[str, float],
                   straights: dict[str, BaseGeometry], junctions: dict[str, JunctionResult],
                   findings: list[Finding], with_findings: bool, bends: list[Bend]) -> LayoutResult:
-        straight = self._straight_union.union(straights)
         # A junction's buildable area holds its local straights and fillets (and any required
         # pavement no fillet form fits): with every line's straight it is all the pavement.
-        total = self._total_union.union({**{f"line:{k}": v for k, v in straights.items()},
-                                         **{f"junction:{k}": r.buildable_area for k, r in junctions.items()}})
-        existing = [Polygon(p.outline, p.holes) for p in layout.existing_pavements]
-        new = total.difference(shapely.union_all(existing)) if existing else total
+        pieces = {**{f"line:{k}": v for k, v in straights.items()},
+                  **{f"junction:{k}": r.buildable_area for k, r in junctions.items()}}
+        total, new = self._total_union.update(pieces, self._existing_union(layout))
         if with_findings or self._last_findings is None:
-            inputs = build_check_inputs(layout, context, network, widths, junctions, total, bends)
-            findings.extend(run_checks(inputs))
+            inputs = self._check_inputs.build(layout, context, network, widths, junctions, total, bends)
+            findings.extend(self._checks.run(inputs))
             self._last_findings = tuple(sorted(findings, key=_finding_order))
         polylines = {line_id: self._polyline_of(g.segments) for line_id, g in geometries.items()}
-        return LayoutResult(junctions, straight, total, new, float(total.area), float(new.area),
+        lines = list(straights.values())
+        straight = LazyGeometry(lambda: shapely.union_all(lines) if lines else Polygon())
+        return LayoutResult(junctions, straight, total, new, total.area_m2, new.area_m2,
                             self._last_findings, polylines)
+
+    def _existing_union(self, layout: Layout) -> BaseGeometry | None:
+        """The existing pavement as one geometry, the same object while it does not change."""
+        pavements = layout.existing_pavements
+        if not pavements:
+            return None
+        if self._existing is None or self._existing[0] != pavements:
+            self._existing = (pavements, shapely.union_all([Polygon(p.outline, p.holes) for p in pavements]))
+        return self._existing[1]
 
     def _without_rules(self, layout: Layout, geometries: dict[str, LineGeometry], problem: str,
                        findings: list[Finding]) -> LayoutResult:

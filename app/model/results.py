@@ -12,6 +12,7 @@ import numpy as np
 import numpy.typing as npt
 from shapely.geometry.base import BaseGeometry
 
+from app.model.unions import LazyGeometry, TiledGeometry
 from geometry.findings import Finding
 
 FloatArray = npt.NDArray[np.float64]
@@ -96,12 +97,52 @@ class JunctionResult:
 
 @dataclass(frozen=True, slots=True, eq=False)
 class LayoutResult:
+    """The pavement geometries are built on first use (the analysis keeps them per tile, see
+    app/model/unions.py); a plain geometry given instead is held as is."""
+
     junctions: dict[str, JunctionResult]
-    straight_pavement: BaseGeometry          # all centerlines at design width, runways at their width
-    total_pavement: BaseGeometry             # straights + fillets (+ required areas no fillet form fits)
-    new_pavement: BaseGeometry               # total minus existing pavement
+    straight_source: BaseGeometry | LazyGeometry  # all centerlines at design width, runways at theirs
+    total_source: BaseGeometry | TiledGeometry    # straights + fillets (+ required areas no fillet form fits)
+    new_source: BaseGeometry | TiledGeometry      # total minus existing pavement
     total_area_m2: float
     new_area_m2: float
     findings: tuple[Finding, ...]
     centerline_polylines: dict[str, FloatArray] = field(default_factory=dict)  # flattened, for drawing
     shoulders: BaseGeometry | None = None                    # paved shoulders, when the rule set has them
+
+    def __post_init__(self) -> None:
+        for name in ("total_source", "new_source"):
+            value = getattr(self, name)
+            if isinstance(value, BaseGeometry):
+                object.__setattr__(self, name, TiledGeometry.whole_of(value))
+
+    @property
+    def straight_pavement(self) -> BaseGeometry:
+        source = self.straight_source
+        return source.get() if isinstance(source, LazyGeometry) else source
+
+    @property
+    def total_pavement(self) -> BaseGeometry:
+        return self._tiled(self.total_source).whole()
+
+    @property
+    def new_pavement(self) -> BaseGeometry:
+        return self._tiled(self.new_source).whole()
+
+    def pavement_near(self, bounds_m: tuple[float, float, float, float]) -> BaseGeometry:
+        """The total pavement within the rectangle (xmin, ymin, xmax, ymax), exactly."""
+        return self._tiled(self.total_source).near(bounds_m)
+
+    def pavement_edges_xy(self) -> tuple[FloatArray, ...]:
+        """The edges of the total pavement as (n, 2) arrays with NaN rows between lines (one array
+        per tile, the same array object while its tile is unchanged), without tile seams."""
+        return self._tiled(self.total_source).edge_parts_xy()
+
+    def new_pavement_rings_xy(self) -> tuple[FloatArray, ...]:
+        """The rings of the new pavement, one array per tile (NaN rows between rings), to fill by
+        the even-odd rule: tiles do not overlap, so the fill is the new pavement's."""
+        return self._tiled(self.new_source).fill_parts_xy()
+
+    @staticmethod
+    def _tiled(source: BaseGeometry | TiledGeometry) -> TiledGeometry:
+        return source if isinstance(source, TiledGeometry) else TiledGeometry.whole_of(source)

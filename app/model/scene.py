@@ -5,14 +5,16 @@ of NaN, so a view draws each style as ONE curve) and :class:`PointSet` (symbols,
 Style keys (``"centerline.taxiway"``...) name the look; the UI maps them to pens and brushes and
 docs/legend.md describes them. :func:`build_scene` reuses a layer of the previous scene (the very
 same object) when the inputs it was drawn from did not change, so a view redraws only the layers
-that are not identical to what it shows.
+that are not identical to what it shows. Within a layer, what each junction contributes is kept
+while its result is the same object (a drag recomputes 2 or 3 junctions), and a shape lists those
+per-junction ``parts``, so a view re-reads only the parts that are not the arrays it drew before.
 """
 
 from __future__ import annotations
 
 import math
 from collections.abc import Iterable, Sequence
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from functools import lru_cache
 
 import numpy as np
@@ -20,8 +22,17 @@ import numpy.typing as npt
 import shapely
 from shapely.geometry.base import BaseGeometry
 
-from app.model.elements import Centerline, FixedObject, Layout, Runway, Vertex, iter_elements
+from app.model.elements import (
+    Centerline,
+    ExistingPavement,
+    FixedObject,
+    Layout,
+    Runway,
+    Vertex,
+    iter_elements,
+)
 from app.model.results import LayoutResult
+from app.model.scene_arrays import JunctionParts, all_junction_parts, join_pieces, rings_xy
 from geometry.errors import GeometryError
 from geometry.findings import Severity
 from geometry.rulesets import get_rule_set, governing_aircraft
@@ -51,11 +62,22 @@ SEVERITY_STYLES: dict[Severity, str] = {Severity.ERROR: "finding.error",
 @dataclass(frozen=True, slots=True, eq=False)
 class Shape:
     """Outlines of one style: (n, 2) metres, pieces separated by NaN rows; ``filled`` rings are
-    filled by the even-odd rule, so holes stay open."""
+    filled by the even-odd rule, so holes stay open. ``parts``, when given, are the arrays ``xy``
+    joins, one per source (junction)."""
 
     style: str
     xy: FloatArray
     filled: bool = False
+    parts: tuple[FloatArray, ...] = ()
+
+    @property
+    def drawn_parts(self) -> tuple[FloatArray, ...]:
+        """The non-empty arrays to draw: the parts, else ``xy`` as one."""
+        return tuple(part for part in (self.parts or (self.xy,)) if len(part))
+
+
+def joined_shape(style: str, parts: Sequence[FloatArray], filled: bool = False) -> Shape:
+    return Shape(style, join_pieces(parts), filled, tuple(parts))
 
 
 @dataclass(frozen=True, slots=True, eq=False)
@@ -85,29 +107,10 @@ class LayerData:
 class Scene:
     layers: dict[str, LayerData]
     inputs: dict[str, tuple[object, ...]]
+    junction_parts: dict[str, JunctionParts] = field(default_factory=dict)
 
 
 # --- arrays -------------------------------------------------------------------------------------
-
-def join_pieces(pieces: Iterable[npt.ArrayLike]) -> FloatArray:
-    """One (n, 2) array of all ``pieces`` with a NaN row between consecutive pieces."""
-    parts: list[FloatArray] = []
-    gap = np.full((1, 2), np.nan)
-    for piece in pieces:
-        array = np.asarray(piece, dtype=float).reshape(-1, 2)
-        if len(array):
-            parts.extend((gap, array) if parts else (array,))
-    return np.concatenate(parts) if parts else np.empty((0, 2))
-
-
-def rings_xy(geometry: BaseGeometry | None) -> FloatArray:
-    """Every polygon ring (exteriors and holes) of ``geometry`` joined by NaN rows."""
-    if geometry is None or geometry.is_empty:
-        return np.empty((0, 2))
-    polygons = [part for part in shapely.get_parts(geometry) if part.geom_type == "Polygon"]
-    rings = shapely.get_rings(np.asarray(polygons, dtype=object)) if polygons else []
-    return join_pieces(shapely.get_coordinates(ring) for ring in rings)
-
 
 def corner_arc_xy(before: Sequence[float], corner: Sequence[float], after: Sequence[float],
                   radius_m: float, max_tangent_m: float) -> FloatArray | None:
@@ -207,33 +210,36 @@ def _runways_layer(layout: Layout) -> LayerData:
                                keys=tuple(r.id for r in layout.runways)),))
 
 
-def _pavement_layer(layout: Layout, result: LayoutResult | None) -> LayerData:
-    existing = shapely.union_all([shapely.Polygon(p.outline, p.holes) for p in layout.existing_pavements
-                                  if len(p.outline) >= 3]) if layout.existing_pavements else None
-    shapes = [Shape("pavement.existing", rings_xy(existing), filled=True)]
+@lru_cache(maxsize=8)
+def _existing_xy(pavements: tuple[ExistingPavement, ...]) -> FloatArray:
+    """Rings of the existing pavement (cached: a drag does not change it)."""
+    existing = shapely.union_all([shapely.Polygon(p.outline, p.holes) for p in pavements
+                                  if len(p.outline) >= 3]) if pavements else None
+    xy = rings_xy(existing)
+    xy.flags.writeable = False
+    return xy
+
+
+def _pavement_layer(layout: Layout, result: LayoutResult | None,
+                    parts: dict[str, JunctionParts]) -> LayerData:
+    shapes = [Shape("pavement.existing", _existing_xy(layout.existing_pavements), filled=True)]
     if result is not None:
-        junctions = list(result.junctions.values())
-        fillets = [rings_xy(f.outline) for j in junctions for f in j.fillets]
+        junctions = [parts[junction_id] for junction_id in result.junctions]
         shapes += [Shape("pavement.shoulder", rings_xy(result.shoulders), filled=True),
-                   Shape("pavement.new", rings_xy(result.new_pavement), filled=True),
-                   Shape("pavement.fillet", join_pieces(fillets), filled=True),
-                   Shape("pavement.edge", rings_xy(result.total_pavement)),
-                   Shape("pavement.required", join_pieces(rings_xy(j.required_area) for j in junctions))]
+                   joined_shape("pavement.new", result.new_pavement_rings_xy(), filled=True),
+                   joined_shape("pavement.fillet", [j.fillets for j in junctions], filled=True),
+                   joined_shape("pavement.edge", result.pavement_edges_xy()),
+                   joined_shape("pavement.required", [j.required for j in junctions])]
     return LayerData("pavement", tuple(shapes))
 
 
-def _tracks_layer(name: str, result: LayoutResult | None, fields: tuple[str, ...]) -> LayerData:
+def _tracks_layer(name: str, result: LayoutResult | None, parts: dict[str, JunctionParts]) -> LayerData:
     if result is None:
         return LayerData(name)
-    kept: list[FloatArray] = []
-    excluded: list[FloatArray] = []
-    for junction in result.junctions.values():
-        for movement in junction.movements:
-            target = excluded if movement.excluded else kept
-            target.extend(getattr(tracks, f) for tracks in movement.tracks for f in fields)
     style = "track.gear" if name == "gear_tracks" else "track.wingtip"
-    return LayerData(name, (Shape(style, join_pieces(kept)),
-                            Shape(f"{style}.excluded", join_pieces(excluded))))
+    junctions = [parts[junction_id] for junction_id in result.junctions]
+    return LayerData(name, tuple(joined_shape(key, [j.tracks[key] for j in junctions])
+                                 for key in (style, f"{style}.excluded")))
 
 
 def clearance_half_widths_m(layout: Layout) -> dict[str, float]:
@@ -321,15 +327,14 @@ def _layer_inputs(layout: Layout, result: LayoutResult | None) -> dict[str, tupl
     }
 
 
-def _build_layer(name: str, layout: Layout, result: LayoutResult | None) -> LayerData:
+def _build_layer(name: str, layout: Layout, result: LayoutResult | None,
+                 parts: dict[str, JunctionParts]) -> LayerData:
     if name == "pavement":
-        return _pavement_layer(layout, result)
+        return _pavement_layer(layout, result, parts)
     if name == "runways":
         return _runways_layer(layout)
-    if name == "gear_tracks":
-        return _tracks_layer(name, result, ("gear_left_edge_xy", "gear_right_edge_xy"))
-    if name == "wingtip_tracks":
-        return _tracks_layer(name, result, ("wingtip_left_xy", "wingtip_right_xy"))
+    if name in ("gear_tracks", "wingtip_tracks"):
+        return _tracks_layer(name, result, parts)
     if name == "objects":
         return _objects_layer(layout)
     if name == "centerlines":
@@ -350,13 +355,14 @@ def build_scene(layout: Layout, result: LayoutResult | None = None,
     """Every layer of ``layout`` (and of ``result`` when given); layers whose inputs equal those of
     ``previous`` are taken over from it unchanged (same object)."""
     inputs = _layer_inputs(layout, result)
+    parts = all_junction_parts(result, previous.junction_parts if previous is not None else {})
     layers: dict[str, LayerData] = {}
     for name in LAYER_ORDER:
         if previous is not None and _same_inputs(previous.inputs[name], inputs[name]):
             layers[name] = previous.layers[name]
         else:
-            layers[name] = _build_layer(name, layout, result)
-    return Scene(layers, inputs)
+            layers[name] = _build_layer(name, layout, result, parts)
+    return Scene(layers, inputs, parts)
 
 
 def selection_xy(layout: Layout, element_ids: Iterable[str]) -> FloatArray:

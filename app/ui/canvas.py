@@ -110,6 +110,10 @@ class PlanCanvas(pg.PlotWidget):
         self.plotItem.hideButtons()
         for axis in ("bottom", "left"):
             self.plotItem.getAxis(axis).enableAutoSIPrefix(False)
+            # The grid and ticks change only with the view range: painted from a pixmap otherwise
+            # (replaying their picture took longer than drawing the whole plan).
+            self.plotItem.getAxis(axis).setCacheMode(
+                QtWidgets.QGraphicsItem.CacheMode.DeviceCoordinateCache)
         # A fixed width: labels of changing length must not shift the plan under the cursor.
         self.plotItem.getAxis("left").setWidth(LEFT_AXIS_WIDTH_PX)
         self.layers = {name: LayerGraphics(view_box, name, 10.0 * index, theme,
@@ -165,10 +169,12 @@ class PlanCanvas(pg.PlotWidget):
 
     # --- content ---------------------------------------------------------------------------------
 
-    def show_scene(self, scene: Scene) -> list[str]:
-        """Redraw the layers that differ from those shown; returns their names."""
+    def show_scene(self, scene: Scene, draft: bool = False) -> list[str]:
+        """Redraw the layers that differ from those shown; returns their names. ``draft`` while a
+        drag previews: a few costly styles take a quicker look (style.DRAFT_STYLES)."""
         redrawn = []
         for name in LAYER_ORDER:
+            self.layers[name].set_draft(draft)
             layer = scene.layers[name]
             if self._shown is None or self._shown.layers[name] is not layer:
                 self.layers[name].set_data(layer)

@@ -8,7 +8,6 @@ from typing import Any
 
 from PySide6 import QtWidgets
 
-from app.fileio.dxf_export import DxfExportError, export_dxf
 from app.fileio.dxf_layers import DXF_LAYERS
 
 
@@ -57,6 +56,8 @@ class ExportDialog(QtWidgets.QDialog):
 
 def write_dxf(window: Any, path: Path, layers: Collection[str] | None, include_underlays: bool) -> bool:
     """Export the window's current layout and results; report the outcome in the window."""
+    from app.fileio.dxf_export import DxfExportError, export_dxf  # ezdxf: only when exporting
+
     window.refresh_now()
     if window.result is None:
         window.messages.error("DXF export", "There is nothing computed to export yet.")

@@ -217,7 +217,7 @@ class MainWindow(QtWidgets.QMainWindow):
         layout = self.document.layout
         self.result = self._run_analysis(layout)
         self.scene = build_scene(layout, self.result, self.scene)
-        self.canvas.show_scene(self.scene)
+        self.canvas.show_scene(self.scene, draft=self.document.is_previewing)
         if layout.units != self._shown_units:
             self._shown_units = layout.units
             self.canvas.set_units(layout.units)

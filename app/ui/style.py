@@ -8,6 +8,7 @@ describes the same table in words: change both together.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import lru_cache
 
 import pyqtgraph as pg
 from PySide6 import QtCore, QtGui
@@ -129,6 +130,38 @@ def brush(style: str, theme: Theme) -> QtGui.QBrush:
     if spec.fill is None:
         return QtGui.QBrush(QtCore.Qt.BrushStyle.NoBrush)
     return QtGui.QBrush(_colour(spec.fill, theme, spec.fill_alpha))
+
+
+# Long dashed outlines that a drag redraws every frame. Qt strokes a cosmetic pen wider than a
+# pixel through its general stroker, dash by dash (about 5 ms a frame for the main sample's
+# required pavement); one pixel wide it takes the fast cosmetic line path. While a drag previews,
+# these are drawn one pixel wide with the same dash lengths; the drag's end restores the look.
+DRAFT_STYLES = frozenset({"pavement.required", "object.clearance"})
+
+
+def draft_pen(style: str, theme: Theme) -> QtGui.QPen:
+    """:func:`pen` one pixel wide, its dashes as long on screen as at the full width."""
+    result = pen(style, theme)
+    width = result.widthF()
+    if width > 1.0:
+        if result.style() == QtCore.Qt.PenStyle.CustomDashLine:
+            result.setDashPattern([length * width for length in result.dashPattern()])
+        result.setWidthF(1.0)
+    return result
+
+
+@lru_cache(maxsize=256)
+def shared_pen(style: str, theme: Theme) -> QtGui.QPen:
+    """:func:`pen`, one object per style and theme, never to be modified: pyqtgraph's symbol atlas
+    keys its pictures by the pen and brush objects, so a new pen for every update renders every
+    symbol again (and grows the atlas)."""
+    return pen(style, theme)
+
+
+@lru_cache(maxsize=256)
+def shared_brush(style: str, theme: Theme) -> QtGui.QBrush:
+    """:func:`brush`, one object per style and theme, never to be modified (see :func:`shared_pen`)."""
+    return brush(style, theme)
 
 
 def text_colour(style: str, theme: Theme) -> QtGui.QColor:

@@ -19,7 +19,6 @@ import pyqtgraph as pg
 from PySide6 import QtCore, QtGui
 
 from app.fileio.raster_image import probe_image
-from app.fileio.underlay_dxf import read_base_drawing
 from app.model.underlays import (
     BaseDrawing,
     FloatArray,
@@ -108,6 +107,8 @@ def image_transform(placement: Placement, pixels: ImagePixels) -> QtGui.QTransfo
 
 def _read(key: ContentKey) -> Content:
     if key.kind == "drawing":
+        from app.fileio.underlay_dxf import read_base_drawing  # ezdxf: only for a drawing underlay
+
         return read_base_drawing(key.path, assumed_units=key.assumed_units)
     return load_image_pixels(key.path)
 

@@ -95,6 +95,9 @@ class CheckContext:
     junctions: dict[str, Junction] = field(init=False)
     movements: dict[str, MovementInfo] = field(init=False)
     skipped: dict[tuple[str, str], Finding] = field(init=False, default_factory=dict)
+    # Centerline polylines by the identity of a line's segments, for a caller that keeps them
+    # between runs (an unchanged line keeps its very segments).
+    centerlines: dict[int, tuple[object, BaseGeometry]] = field(default_factory=dict)
     _geometries: dict[str, BaseGeometry] = field(init=False, default_factory=dict)
     _legs: dict[str, dict[str, tuple[Leg, Leg]]] = field(init=False, default_factory=dict)
 
@@ -110,7 +113,11 @@ class CheckContext:
 
     def geometry(self, line_id: str) -> BaseGeometry:
         if line_id not in self._geometries:
-            self._geometries[line_id] = centerline_geometry(self.lines[line_id].line)
+            line = self.lines[line_id].line
+            known = self.centerlines.get(id(line.segments))
+            if known is None or known[0] is not line.segments:
+                known = self.centerlines[id(line.segments)] = (line.segments, centerline_geometry(line))
+            self._geometries[line_id] = known[1]
         return self._geometries[line_id]
 
     def movement_legs(self, movement_key: str, junction_id: str) -> tuple[Leg, Leg] | None:

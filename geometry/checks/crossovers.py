@@ -256,7 +256,7 @@ _Shape = tuple[DesignAircraft, float, float, float, float, float, float, float]
 
 
 @dataclass(slots=True)
-class _ReversalSteering:
+class ReversalSteering:
     """Peak steering of reversals, remembered by their shape (aircraft, radii, turn angles,
     junction spacing along the connector, straight legs): crossovers alike in shape steer alike
     wherever they are."""
@@ -276,11 +276,13 @@ class _ReversalSteering:
         return self.known[key]
 
 
-def check_reversal_steering(context: CheckContext, radii: SteeringRadii) -> list[Finding]:
+def check_reversal_steering(context: CheckContext, radii: SteeringRadii,
+                            steering: ReversalSteering | None = None) -> list[Finding]:
     """E-REVERSAL-STEERING: per crossover and aircraft, the worst reversal if its steering angle
-    exceeds the aircraft's limit."""
+    exceeds the aircraft's limit. ``steering`` may carry the peaks known from earlier runs (they
+    depend on the reversal's shape only)."""
     findings = []
-    steering = _ReversalSteering()
+    steering = steering if steering is not None else ReversalSteering()
     for crossover in context.inputs.crossovers:
         if not crossover.connector_is_straight:
             continue

@@ -7,6 +7,7 @@ the checks (geometry/checks/*) turn them into findings. Everything in metres and
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Protocol, runtime_checkable
 
 from shapely.geometry.base import BaseGeometry
 
@@ -15,6 +16,22 @@ from geometry.network import Junction, NetworkLine
 from geometry.primitives import FloatArray
 from geometry.rulesets import RuleSet
 from geometry.special_cases import AcuteExit, Crossover, RightAngleConnection
+
+
+@runtime_checkable
+class PavementNear(Protocol):
+    """The layout's pavement, read one neighbourhood at a time (the analysis keeps it in tiles and
+    never unites the whole of it during a drag)."""
+
+    def near(self, bounds_m: tuple[float, float, float, float]) -> BaseGeometry:
+        """Exactly the pavement within the rectangle (xmin, ymin, xmax, ymax)."""
+        ...
+
+
+def pavement_near(pavement: BaseGeometry | PavementNear,
+                  bounds_m: tuple[float, float, float, float]) -> BaseGeometry:
+    """The pavement within ``bounds_m``; a plain geometry is handed back whole."""
+    return pavement.near(bounds_m) if isinstance(pavement, PavementNear) else pavement
 
 
 @dataclass(frozen=True, slots=True, eq=False)
@@ -74,7 +91,11 @@ class CheckInputs:
     right_angle_connections: tuple[RightAngleConnection, ...]
     acute_exits: tuple[AcuteExit, ...]
     objects: tuple[ObjectInfo, ...]
-    pavement: BaseGeometry              # all pavement of the layout (straights + fillets)
+    pavement: BaseGeometry | PavementNear  # all pavement of the layout (straights + fillets)
     runway_widths_m: dict[str, float]
     # Movements the planner excluded: the checks skip them and do not count them as paths.
     excluded_movement_keys: frozenset[str] = frozenset()
+    # ``movements`` split by junction, in the same order; empty: the checks split them. A caller
+    # that hands back the same tuple for a junction whose movements did not change lets the checks
+    # tell the unchanged junctions by identity (geometry/checks/incremental.py).
+    movement_groups: tuple[tuple[str, tuple[MovementInfo, ...]], ...] = ()

@@ -24,14 +24,18 @@ PATHS_SOURCE = ("common practice, no source: at most three choices per approach 
 def check_paths(context: CheckContext) -> list[Finding]:
     """W-PATHS: an approach to a junction that offers more than three movements (excluded
     movements do not count)."""
+    return [finding for junction in context.inputs.junctions for finding in paths_findings(context, junction)]
+
+
+def paths_findings(context: CheckContext, junction: Junction) -> list[Finding]:
+    """W-PATHS at one junction."""
     excluded = context.inputs.excluded_movement_keys
+    movements = [movement for movement in junction_movements(junction) if movement.key not in excluded]
     findings = []
-    for junction in context.inputs.junctions:
-        movements = [movement for movement in junction_movements(junction) if movement.key not in excluded]
-        for leg in junction.legs:
-            offered = [movement for movement in movements if movement.from_leg == leg]
-            if len(offered) > MAX_PATHS_PER_APPROACH:
-                findings.append(_paths_finding(context, junction, leg, offered))
+    for leg in junction.legs:
+        offered = [movement for movement in movements if movement.from_leg == leg]
+        if len(offered) > MAX_PATHS_PER_APPROACH:
+            findings.append(_paths_finding(context, junction, leg, offered))
     return findings
 
 

@@ -8,8 +8,10 @@ whose centerlines run within OVERLAP_DISTANCE_M of each other for more than OVER
 from __future__ import annotations
 
 import shapely
+from shapely.geometry.base import BaseGeometry
 
 from geometry.checks.common import CheckContext
+from geometry.checks.inputs import LineInfo
 from geometry.findings import Finding, Severity
 from geometry.units import from_metres
 
@@ -24,21 +26,29 @@ def check_overlaps(context: CheckContext) -> list[Finding]:
     if len(infos) < 2:
         return []
     geometries = [context.geometry(info.line.id) for info in infos]
-    tree = shapely.STRtree(geometries)
     findings = []
-    pairs = tree.query(geometries, predicate="dwithin", distance=OVERLAP_DISTANCE_M)
-    for first, second in zip(pairs[0], pairs[1], strict=True):
-        if first >= second:
-            continue
-        near_second = geometries[second].buffer(OVERLAP_DISTANCE_M, cap_style="flat")
-        shared = geometries[first].intersection(near_second)
-        if shared.is_empty or shared.length <= OVERLAP_LENGTH_M:
-            continue
-        a, b = infos[first], infos[second]
-        where = shared.interpolate(0.5, normalized=True)
-        findings.append(Finding(
-            "E-OVERLAP", Severity.ERROR,
-            f"{a.name} ({a.line.id}) and {b.name} ({b.line.id}) lie on each other over {shared.length:.1f} m "
-            f"({from_metres(shared.length, 'ft'):.1f} ft): delete one, or join them into one line.",
-            (a.line.id, b.line.id), (float(where.x), float(where.y)), RULE, SOURCE))
+    for first, second in overlap_candidates(geometries):
+        findings.extend(overlap_findings(infos[first], infos[second], geometries[first], geometries[second]))
     return findings
+
+
+def overlap_candidates(geometries: list[BaseGeometry]) -> list[tuple[int, int]]:
+    """Index pairs (first < second) of centerlines close enough to lie on each other."""
+    pairs = shapely.STRtree(geometries).query(geometries, predicate="dwithin", distance=OVERLAP_DISTANCE_M)
+    return [(first, second) for first, second in zip(pairs[0].tolist(), pairs[1].tolist(), strict=True)
+            if first < second]
+
+
+def overlap_findings(a: LineInfo, b: LineInfo, geometry_a: BaseGeometry,
+                     geometry_b: BaseGeometry) -> list[Finding]:
+    """E-OVERLAP for one pair of lines (their centerlines as polylines)."""
+    near_second = geometry_b.buffer(OVERLAP_DISTANCE_M, cap_style="flat")
+    shared = geometry_a.intersection(near_second)
+    if shared.is_empty or shared.length <= OVERLAP_LENGTH_M:
+        return []
+    where = shared.interpolate(0.5, normalized=True)
+    return [Finding(
+        "E-OVERLAP", Severity.ERROR,
+        f"{a.name} ({a.line.id}) and {b.name} ({b.line.id}) lie on each other over {shared.length:.1f} m "
+        f"({from_metres(shared.length, 'ft'):.1f} ft): delete one, or join them into one line.",
+        (a.line.id, b.line.id), (float(where.x), float(where.y)), RULE, SOURCE)]

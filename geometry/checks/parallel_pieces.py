@@ -89,6 +89,28 @@ def line_pieces(lines: Sequence[NetworkLine]) -> Pieces:
                   np.concatenate(stations))
 
 
+def joined_pieces(first: Pieces, second: Pieces) -> Pieces:
+    """The pieces of both, ``first``'s lines first (as :func:`line_pieces` of their lines would give)."""
+    return Pieces((*first.line_ids, *second.line_ids),
+                  np.concatenate((first.owner, second.owner + len(first.line_ids))).astype(np.int64),
+                  np.concatenate((first.segment, second.segment)).astype(np.int64),
+                  np.vstack((first.start, second.start)), np.vstack((first.end, second.end)),
+                  np.concatenate((first.start_station_m, second.start_station_m)))
+
+
+def pieces_near(pieces: Pieces, bounds: tuple[float, float, float, float], reach_m: float) -> Pieces:
+    """The pieces whose bounding boxes come within ``reach_m`` of ``bounds`` (x min, y min, x max,
+    y max): for a pair of lines, no piece farther from the other line's box can form a pair."""
+    low = np.minimum(pieces.start, pieces.end)
+    high = np.maximum(pieces.start, pieces.end)
+    keep = ((low[:, 0] <= bounds[2] + reach_m) & (high[:, 0] >= bounds[0] - reach_m)
+            & (low[:, 1] <= bounds[3] + reach_m) & (high[:, 1] >= bounds[1] - reach_m))
+    if keep.all():
+        return pieces
+    return Pieces(pieces.line_ids, pieces.owner[keep], pieces.segment[keep], pieces.start[keep],
+                  pieces.end[keep], pieces.start_station_m[keep])
+
+
 def segments_at_junctions(lines: Sequence[NetworkLine], junctions: Sequence[Junction]
                           ) -> set[tuple[SegmentKey, SegmentKey]]:
     """Pairs of segments (of two different lines) that both reach a junction of those lines."""

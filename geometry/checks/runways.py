@@ -15,11 +15,12 @@ from geometry.checks.common import (
     length_text,
     line_label,
 )
+from geometry.checks.inputs import pavement_near
 from geometry.errors import GeometryError
 from geometry.findings import Finding, Severity
 from geometry.network import Junction
 from geometry.primitives import Point
-from geometry.special_cases import AcuteExit, ThroatExtent, throat_extents
+from geometry.special_cases import THROAT_PROBE_OFFSET_M, AcuteExit, ThroatExtent, throat_extents
 from geometry.standards import ANNEX_14, RuleValue
 
 _RAPID_EXIT = (f"{ANNEX_14}, rapid exit taxiways: intersection angle not less than 25 nor more "
@@ -31,6 +32,7 @@ WIDE_THROAT_SOURCE = ("FAA taxiway design principles: avoid wide expanses of pav
                       "entrances, since signs end up far from the pilot's eye (AC 150/5300-13A and FAA "
                       "Engineering Brief 75, read in a published airport development plan summarising "
                       "them); the runway width as the limit is common practice, no source")
+THROAT_BOUNDS_MARGIN_M = 1.0  # around the probes: they lie inside the rectangle, not on its sides
 CONNECTION_SOURCE = ("recognised by geometry/special_cases.py: right angle within 5 degrees of 90; "
                      "acute exit 20 to 60 degrees from the direction of travel (house definitions)")
 
@@ -59,13 +61,33 @@ def check_wide_throats(context: CheckContext) -> list[Finding]:
             if width_m is None:
                 continue
             try:
-                extents = throat_extents(junction, runway_id, width_m, context.inputs.pavement)
+                bounds_m = _throat_bounds_m(junction, runway_id, width_m)
+                pavement = pavement_near(context.inputs.pavement, bounds_m)
+                extents = throat_extents(junction, runway_id, width_m, pavement)
             except GeometryError as error:
                 context.skip("wide throat", str(error), (junction.id, runway_id), junction.point)
                 continue
             findings.extend(_throat_finding(context, junction, extent, width_m)
                             for extent in extents if extent.extent_m > width_m + LENGTH_TOLERANCE_M)
     return findings
+
+
+def _throat_bounds_m(junction: Junction, runway_id: str, width_m: float) -> tuple[float, float, float, float]:
+    """A rectangle around both edge probes of :func:`throat_extents` (the same stretch of each
+    runway edge), with a margin, so the pavement within it is all the probes can meet."""
+    legs = [leg for leg in junction.legs if leg.line_id == runway_id]
+    if not legs:
+        return (-math.inf, -math.inf, math.inf, math.inf)
+    heading = next((leg.heading_rad for leg in legs if leg.direction == 1), legs[0].heading_rad + math.pi)
+    behind_m = sum(leg.length_m for leg in legs if leg.direction == -1)
+    ahead_m = sum(leg.length_m for leg in legs if leg.direction == 1)
+    across_m = width_m / 2.0 + THROAT_PROBE_OFFSET_M
+    corners = [(junction.point[0] + s * math.cos(heading) - a * math.sin(heading),
+                junction.point[1] + s * math.sin(heading) + a * math.cos(heading))
+               for s in (-behind_m, ahead_m) for a in (-across_m, across_m)]
+    xs, ys = [x for x, _ in corners], [y for _, y in corners]
+    return (min(xs) - THROAT_BOUNDS_MARGIN_M, min(ys) - THROAT_BOUNDS_MARGIN_M,
+            max(xs) + THROAT_BOUNDS_MARGIN_M, max(ys) + THROAT_BOUNDS_MARGIN_M)
 
 
 def _edge_point(junction: Junction, extent: ThroatExtent, width_m: float) -> Point:

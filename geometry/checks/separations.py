@@ -29,7 +29,14 @@ from geometry.checks.common import (
     usable_objects,
 )
 from geometry.checks.inputs import LineInfo, ObjectInfo
-from geometry.checks.parallel_pieces import ParallelPair, line_pieces, parallel_pairs, segments_at_junctions
+from geometry.checks.parallel_pieces import (
+    ParallelPair,
+    Pieces,
+    SegmentKey,
+    line_pieces,
+    parallel_pairs,
+    segments_at_junctions,
+)
 from geometry.errors import GeometryError
 from geometry.findings import Finding, Severity
 from geometry.rulesets import SeparationKind
@@ -105,7 +112,7 @@ class _PairRules:
         return PairRule(kind, rule, label, phrase)
 
 
-def _reach_m(context: CheckContext) -> float:
+def separation_reach_m(context: CheckContext) -> float:
     """The largest line-to-line separation any pair of these lines can need."""
     reach = 0.0
     for info in context.inputs.lines:
@@ -124,10 +131,23 @@ def check_line_separations(context: CheckContext) -> list[Finding]:
     if len(lines) < 2:
         return []
     rules = _PairRules(context)
-    pairs = parallel_pairs(line_pieces(lines), _reach_m(context), rules.required_m,
+    pairs = parallel_pairs(line_pieces(lines), separation_reach_m(context), rules.required_m,
                            segments_at_junctions(lines, context.inputs.junctions))
     findings = []
     for pair in pairs:
+        found = rules.get(pair.line_a, pair.line_b)
+        if found is not None and math.isfinite(pair.spacing_m):
+            findings.append(_pair_finding(context, pair, found))
+    return findings
+
+
+def pair_separation_findings(context: CheckContext, pieces: Pieces, reach_m: float,
+                             excluded: set[tuple[SegmentKey, SegmentKey]]) -> list[Finding]:
+    """:func:`check_line_separations` for the lines of ``pieces`` only (two, in practice), with
+    ``excluded`` the segment pairs meeting at their shared junctions (``segments_at_junctions``)."""
+    rules = _PairRules(context)
+    findings = []
+    for pair in parallel_pairs(pieces, reach_m, rules.required_m, excluded):
         found = rules.get(pair.line_a, pair.line_b)
         if found is not None and math.isfinite(pair.spacing_m):
             findings.append(_pair_finding(context, pair, found))
@@ -153,19 +173,25 @@ def check_object_separations(context: CheckContext) -> list[Finding]:
     if not objects:
         return []
     tree = shapely.STRtree([item.geometry for item in objects])
+    return [finding for info in context.inputs.lines
+            for finding in object_separation_findings(context, info, objects, tree)]
+
+
+def object_separation_findings(context: CheckContext, info: LineInfo, objects: list[ObjectInfo],
+                               tree: shapely.STRtree) -> list[Finding]:
+    """E-SEP-TWY-OBJ, E-SEP-TXL-OBJ along one line (``tree`` holds the geometries of ``objects``)."""
+    if info.line.kind == "runway":
+        return []
+    kind: SeparationKind = "taxiway_object" if info.line.kind == "taxiway" else "taxilane_object"
+    rule = _object_rule(context, info, kind)
+    if rule is None:
+        return []
     findings = []
-    for info in context.inputs.lines:
-        if info.line.kind == "runway":
-            continue
-        kind: SeparationKind = "taxiway_object" if info.line.kind == "taxiway" else "taxilane_object"
-        rule = _object_rule(context, info, kind)
-        if rule is None:
-            continue
-        centerline = context.geometry(info.line.id)
-        for index in tree.query(centerline, predicate="dwithin", distance=rule.value_m).tolist():
-            finding = _object_finding(context, info, kind, rule, centerline, objects[index])
-            if finding is not None:
-                findings.append(finding)
+    centerline = context.geometry(info.line.id)
+    for index in tree.query(centerline, predicate="dwithin", distance=rule.value_m).tolist():
+        finding = _object_finding(context, info, kind, rule, centerline, objects[index])
+        if finding is not None:
+            findings.append(finding)
     return findings
 
 

@@ -4,6 +4,7 @@ movements that could not be computed at all (E-TURN-FIT)."""
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable
 from dataclasses import dataclass, field
 
 from geometry.aircraft import DesignAircraft
@@ -64,8 +65,14 @@ def steering_source(context: CheckContext, aircraft: DesignAircraft) -> str:
 def check_steering(context: CheckContext, radii: SteeringRadii) -> list[Finding]:
     """E-STEERING: a movement whose largest nose-gear steering angle exceeds the aircraft's limit,
     with the centerline radius that would keep it within the limit."""
+    return steering_findings(context, radii, context.offered_movements())
+
+
+def steering_findings(context: CheckContext, radii: SteeringRadii,
+                      movements: Iterable[MovementInfo]) -> list[Finding]:
+    """E-STEERING along ``movements`` (offered ones)."""
     findings = []
-    for movement in context.offered_movements():
+    for movement in movements:
         if movement.problem is not None:
             continue
         for track in movement.tracks:
@@ -94,8 +101,13 @@ def _steering_finding(context: CheckContext, radii: SteeringRadii, movement: Mov
 
 def check_turn_fit(context: CheckContext) -> list[Finding]:
     """E-TURN-FIT: a movement the analysis could not compute, with its reason."""
+    return turn_fit_findings(context, context.offered_movements())
+
+
+def turn_fit_findings(context: CheckContext, movements: Iterable[MovementInfo]) -> list[Finding]:
+    """E-TURN-FIT among ``movements`` (offered ones)."""
     findings = []
-    for movement in context.offered_movements():
+    for movement in movements:
         if movement.problem is None:
             continue
         message = (f"{sentence(movement_label(context, movement))} could not be computed: "

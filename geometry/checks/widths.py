@@ -4,6 +4,7 @@ between the outer main-gear tyres and the pavement edge along each movement (E-E
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable
 
 from geometry.checks.common import (
     LENGTH_TOLERANCE_M,
@@ -25,14 +26,15 @@ def check_widths(context: CheckContext) -> list[Finding]:
     """E-WIDTH: a taxiway or taxilane drawn narrower than its design group's straight width.
 
     Only a width override can make a line narrower than the rule, so the message points at it."""
-    findings = []
-    for info in context.inputs.lines:
-        if info.line.kind == "runway":
-            continue
-        finding = _width_finding(context, info)
-        if finding is not None:
-            findings.append(finding)
-    return findings
+    return [finding for info in context.inputs.lines for finding in width_findings(context, info)]
+
+
+def width_findings(context: CheckContext, info: LineInfo) -> list[Finding]:
+    """E-WIDTH for one line (none for a runway)."""
+    if info.line.kind == "runway":
+        return []
+    finding = _width_finding(context, info)
+    return [] if finding is None else [finding]
 
 
 def _width_finding(context: CheckContext, info: LineInfo) -> Finding | None:
@@ -58,8 +60,13 @@ def _width_finding(context: CheckContext, info: LineInfo) -> Finding | None:
 def check_edge_margins(context: CheckContext) -> list[Finding]:
     """E-EDGE-MARGIN: along a movement, an outer main-gear tyre comes closer to the pavement edge
     (as drawn, or as it exists) than the required edge margin (TESM or ICAO clearance)."""
+    return edge_margin_findings(context, context.offered_movements())
+
+
+def edge_margin_findings(context: CheckContext, movements: Iterable[MovementInfo]) -> list[Finding]:
+    """E-EDGE-MARGIN along ``movements`` (offered ones)."""
     findings = []
-    for movement in context.offered_movements():
+    for movement in movements:
         for track in movement.tracks:
             margin_m, required_m = track.min_edge_margin_m, track.required_edge_margin_m
             if not (math.isfinite(margin_m) and math.isfinite(required_m)):

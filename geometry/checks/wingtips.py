@@ -18,6 +18,7 @@ from __future__ import annotations
 
 import math
 from collections import defaultdict
+from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass, field
 
 import shapely
@@ -75,8 +76,14 @@ def check_wingtip_objects(context: CheckContext) -> list[Finding]:
     if not objects:
         return []
     tree = shapely.STRtree([item.geometry for item in objects])
+    return object_wingtip_findings(context, context.offered_movements(), objects, tree)
+
+
+def object_wingtip_findings(context: CheckContext, movements: Iterable[MovementInfo],
+                            objects: list[ObjectInfo], tree: shapely.STRtree) -> list[Finding]:
+    """E-WINGTIP-OBJECT along ``movements`` (offered ones; ``tree`` holds the geometries of ``objects``)."""
     findings = []
-    for movement in context.offered_movements():
+    for movement in movements:
         kind = wingtip_kind(context, movement.line_ids)
         for track in movement.tracks:
             rule = _clearance(context, kind, track.aircraft, movement_ids(movement), movement.location_m)
@@ -105,7 +112,7 @@ def _object_finding(context: CheckContext, movement: MovementInfo, track: TrackI
                    nearest_midpoint(tip.geometry, item.geometry), label, rule.describe())
 
 
-def _junctions_by_line(junctions: tuple[Junction, ...]) -> dict[str, list[Junction]]:
+def _junctions_by_line(junctions: Iterable[Junction]) -> dict[str, list[Junction]]:
     found: dict[str, list[Junction]] = defaultdict(list)
     for junction in junctions:
         for line_id in junction.line_ids:
@@ -139,7 +146,7 @@ class _TaxiwayClearances:
     line's centerline less the stretches near its junctions with a movement's lines."""
 
     context: CheckContext
-    by_line: dict[str, list[Junction]]
+    by_line: Mapping[str, Sequence[Junction]]
     _requirements: dict[tuple[DesignAircraft, str, WingtipKind], _Requirement | None] = field(
         default_factory=dict)
     _clipped: dict[tuple[str, frozenset[str], float], BaseGeometry] = field(default_factory=dict)
@@ -185,11 +192,15 @@ def body_reach_m(aircraft: DesignAircraft) -> float:
     return math.hypot(aircraft.wingspan_m / 2.0, aircraft.cmg_m - aircraft.wingtip_x_m)
 
 
-def _query_reach_m(context: CheckContext, others: list[LineInfo]) -> float:
+def _query_reach_m(context: CheckContext, others: list[LineInfo],
+                   track_aircraft: Iterable[DesignAircraft] | None = None) -> float:
     """An upper bound of every required tip-to-centerline distance: the largest half span plus
     the largest taxiway wingtip clearance (taxilane clearances are smaller)."""
     aircraft = {info.design_aircraft for info in others}
-    aircraft.update(track.aircraft for movement in context.inputs.movements for track in movement.tracks)
+    if track_aircraft is None:
+        track_aircraft = (track.aircraft for movement in context.inputs.movements
+                          for track in movement.tracks)
+    aircraft.update(track_aircraft)
     clearances = [0.0]
     for member in aircraft:
         try:
@@ -199,30 +210,80 @@ def _query_reach_m(context: CheckContext, others: list[LineInfo]) -> float:
     return max(info.design_aircraft.wingspan_m for info in others) / 2.0 + max(clearances) + 1.0
 
 
+@dataclass(frozen=True, slots=True, eq=False)
+class TaxiwayScene:
+    """What the wingtip-to-taxiway check of every movement shares in one run: the taxiways and
+    taxilanes (``others``) in an STRtree, the query reach, and the junctions of each line."""
+
+    context: CheckContext
+    others: tuple[LineInfo, ...]
+    tree: shapely.STRtree
+    reach_m: float
+    by_line: Mapping[str, Sequence[Junction]]
+
+
+@dataclass(frozen=True, slots=True, eq=False)
+class TaxiwayOutcome:
+    """The findings of some movements, the other lines they were checked against (any change to
+    those lines or their junctions can change the findings) and the bounds (x min, y min, x max,
+    y max) of their query boxes (a line moved into them can add findings); None: no finite track."""
+
+    findings: tuple[Finding, ...]
+    checked_line_ids: frozenset[str]
+    bounds: tuple[float, float, float, float] | None
+
+
+def taxiway_scene(context: CheckContext, by_line: Mapping[str, Sequence[Junction]] | None = None,
+                  track_aircraft: Iterable[DesignAircraft] | None = None) -> TaxiwayScene | None:
+    """The shared part of E-WINGTIP-TAXIWAY; None when there is no taxiway or taxilane.
+    ``by_line`` and ``track_aircraft`` (every aircraft with a track) when the caller knows them."""
+    others = tuple(info for info in context.inputs.lines if info.line.kind != "runway")
+    if not others:
+        return None
+    tree = shapely.STRtree([context.geometry(info.line.id) for info in others])
+    junctions = by_line if by_line is not None else _junctions_by_line(context.inputs.junctions)
+    reach_m = _query_reach_m(context, list(others), track_aircraft)
+    return TaxiwayScene(context, others, tree, reach_m, junctions)
+
+
 def check_wingtip_taxiways(context: CheckContext) -> list[Finding]:
     """E-WINGTIP-TAXIWAY."""
-    others = [info for info in context.inputs.lines if info.line.kind != "runway"]
     movements = context.offered_movements()
-    if not others or not movements:
-        return []
-    tree = shapely.STRtree([context.geometry(info.line.id) for info in others])
-    reach_m = _query_reach_m(context, others)
-    clearances = _TaxiwayClearances(context, _junctions_by_line(context.inputs.junctions))
-    findings = []
+    scene = taxiway_scene(context) if movements else None
+    return [] if scene is None else list(taxiway_wingtip_findings(scene, movements).findings)
+
+
+def taxiway_wingtip_findings(scene: TaxiwayScene, movements: Iterable[MovementInfo]) -> TaxiwayOutcome:
+    """E-WINGTIP-TAXIWAY along ``movements`` (offered ones). The rule look-ups are made afresh for
+    each call, so the outcome does not depend on what was checked before."""
+    context, others, tree = scene.context, scene.others, scene.tree
+    clearances = _TaxiwayClearances(context, scene.by_line)
+    findings: list[Finding] = []
+    checked: set[str] = set()
+    boxes: list[tuple[float, float, float, float]] = []
     for movement in movements:
         junction = context.junctions.get(movement.junction_id)
         left_out = set(movement.line_ids) | set(junction.line_ids if junction is not None else ())
         for track in movement.tracks:
-            box = track_box(track, reach_m)
-            if box is None or all(others[index].line.id in left_out for index in tree.query(box).tolist()):
+            box = track_box(track, scene.reach_m)
+            if box is None:
                 continue
+            boxes.append(box.bounds)
+            near = {others[index].line.id for index in tree.query(box).tolist()} - left_out
+            if not near:
+                continue
+            checked |= near
             tips = movement_wingtips(context, movement, track)
-            for index in _near(tree, tips, reach_m) if tips else []:
+            for index in _near(tree, tips, scene.reach_m) if tips else []:
                 if others[index].line.id not in left_out:
                     finding = _taxiway_finding(clearances, movement, track, tips, others[index])
                     if finding is not None:
                         findings.append(finding)
-    return findings
+    bounds = None
+    if boxes:
+        low_x, low_y, high_x, high_y = zip(*boxes, strict=True)
+        bounds = (min(low_x), min(low_y), max(high_x), max(high_y))
+    return TaxiwayOutcome(tuple(findings), frozenset(checked), bounds)
 
 
 def _taxiway_finding(clearances: _TaxiwayClearances, movement: MovementInfo, track: TrackInfo,

@@ -8,7 +8,7 @@ import pytest
 
 from app.fileio.aircraft_library import load_demo_library
 from app.model.analysis import analyze
-from app.model.bends import line_bends
+from app.model.bends import BendFinder, line_bends
 from app.model.elements import Centerline, Layout, Vertex
 from geometry.pavement import containment_gap
 
@@ -62,3 +62,18 @@ def test_an_almost_straight_vertex_is_no_bend(corner_deg: float) -> None:
 def test_a_corner_at_a_junction_is_left_to_the_junction() -> None:
     bends, _ = line_bends(l_shaped().centerlines[0], [(300.0, 0.2)], 0.5)
     assert bends == []  # within the snap tolerance of a junction point (identity)
+
+
+def test_the_bend_finder_keeps_the_bends_of_unchanged_lines_and_equals_a_fresh_search() -> None:
+    zigzag = Centerline("twy-2", "B", (Vertex(0.0, 100.0), Vertex(200.0, 150.0), Vertex(400.0, 100.0),
+                                       Vertex(600.0, 160.0)))
+    corner = l_shaped().centerlines[0]
+    finder = BendFinder()
+    first, _ = finder.find([corner, zigzag], [], 0.5)
+    moved = Centerline("twy-2", "B", (*zigzag.vertices[:2], Vertex(410.0, 95.0), zigzag.vertices[3]))
+    junction_points = [(200.0, 150.3)]  # within the snap tolerance of the zigzag's first vertex
+    again, reversals = finder.find([corner, moved], junction_points, 0.5)
+    fresh = [line_bends(line, junction_points, 0.5) for line in (corner, moved)]
+    assert again == [bend for found, _ in fresh for bend in found] and reversals == []  # identity
+    assert again[0] is first[0]  # identity: the unchanged line's bend is the very same object
+    assert [bend.junction.id for bend in again] == ["B:twy-1#1", "B:twy-2#2"]  # identity

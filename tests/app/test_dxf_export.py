@@ -19,16 +19,19 @@ import numpy as np
 import pyogrio
 import pytest
 import shapely
+from ezdxf.entities.lwpolyline import LWPolylinePoints
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from app.fileio.dxf_content import bulge_rows, label_anchor, off_arc_runs
+from app.fileio.dxf_content import bulge_rows, coordinate_decimals, label_anchor, off_arc_runs
 from app.fileio.dxf_export import (
     CHORD_TOLERANCE,
     SAFETY_CAUTION,
+    TRACK_TOLERANCE,
     DxfExportError,
     export_dxf,
     render_dxf,
+    track_simplify_tolerance,
 )
 from app.fileio.dxf_layers import (
     DXF_LAYERS,
@@ -43,6 +46,7 @@ from app.fileio.dxf_style import (
     NICE_MANTISSAS,
     TEXT_FONT,
     TEXT_STYLE,
+    PackedPolylinePoints,
     drawing_scale,
     mtext_content,
     text_content,
@@ -52,6 +56,8 @@ from app.model.elements import Centerline, Layout, Vertex
 from app.model.scene import clearance_half_widths_m
 from geometry.centerline import flatten
 from geometry.primitives import Arc
+from geometry.sweep import DEFAULT_CHORD_TOLERANCE_M
+from geometry.units import from_metres
 from tests.app.dxf_fixtures import (
     CORNER_RADIUS_M,
     FILLET_RADIUS_M,
@@ -197,14 +203,40 @@ def test_centerline_corner_is_a_true_arc(exports: dict[str, Path], units: str) -
 
 
 @pytest.mark.parametrize("units", UNITS)
-def test_tracks_are_simplified_within_the_chord_tolerance(exports: dict[str, Path], units: str) -> None:
+def test_tracks_are_simplified_within_the_track_tolerance(exports: dict[str, Path], units: str) -> None:
+    # Tracks are guides drawn within TRACK_TOLERANCE of the true curve (docs/dxf.md); the engine's
+    # sampling takes DEFAULT_CHORD_TOLERANCE_M of it, the simplification the rest, and rounding
+    # to the written decimals moves a point by at most half a unit of the last decimal per axis.
+    simplify = track_simplify_tolerance(units)
+    assert simplify + from_metres(DEFAULT_CHORD_TOLERANCE_M, units) == pytest.approx(TRACK_TOLERANCE[units])
+    rounding = math.sqrt(2.0) / 2.0 * 10.0 ** -coordinate_decimals(simplify)
     for aircraft, token in (("Demo Twin 36", "DEMO_TWIN_36"), ("Demo Regional/2", "DEMO_REGIONAL_2")):
         read = gdal_geometry(exports[units], f"C-TAXI-GEAR-{token}")
         tracks = next(t for t in RESULT.junctions["J:twy-a/twy-b#0"].movements[0].tracks
                       if t.aircraft_name == aircraft)
         dense = np.vstack((tracks.gear_left_edge_xy, tracks.gear_right_edge_xy)) * UNITS_PER_M[units]
-        assert shapely.distance(shapely.points(dense), read).max() <= CHORD_TOLERANCE[units]
+        assert shapely.distance(shapely.points(dense), read).max() <= simplify + rounding
         assert len(shapely.get_coordinates(read)) < len(dense) / 10  # the dense arrays were thinned
+
+
+def test_packed_polyline_points_write_the_text_ezdxf_writes() -> None:
+    rng = np.random.default_rng(7)
+    table = np.zeros((40, 5))
+    table[:, :2] = rng.uniform(-1e5, 1e5, (40, 2))
+    table[::3, 4] = rng.uniform(-1.0, 1.0, 14)  # bulges on some vertices, 0.0 on the others
+    table[1, :2] = (-0.0, 1e-300)  # signed zero and a tiny value print as ezdxf prints them
+    packed = PackedPolylinePoints()
+
+    def ours_and_theirs() -> tuple[str, str]:
+        packed.set(table)
+        ours = "".join(tag.dxfstr() for tag in packed.dxftags())
+        return ours, "".join(tag.dxfstr() for tag in LWPolylinePoints.dxftags(packed))  # ezdxf's own
+
+    assert ours_and_theirs()[0] == ours_and_theirs()[1]  # identity
+    table[:, 4] = 0.0  # no bulges: one template for the whole polyline
+    assert ours_and_theirs()[0] == ours_and_theirs()[1]
+    table[5, 2:4] = (0.5, 0.25)  # widths: written by ezdxf itself
+    assert ours_and_theirs()[0] == ours_and_theirs()[1]
 
 
 @pytest.mark.parametrize("units", UNITS)
@@ -311,6 +343,8 @@ def test_notes_block_holds_title_units_rule_set_aircraft_and_caution(exports: di
     assert all(aircraft.name in text for aircraft in FLEET)
     wingspan = {"ft": "wingspan 118.1'", "m": "wingspan 36.00 m"}[units]  # 36 m / 0.3048: identity
     assert wingspan in text and SAFETY_CAUTION in text
+    accuracy = {"ft": ("within 0.01 ft", "within 0.03 ft"), "m": ("within 0.003 m", "within 0.01 m")}[units]
+    assert all(phrase in text for phrase in accuracy)  # CHORD_TOLERANCE and TRACK_TOLERANCE: identity
 
 
 def test_text_and_dimension_styles_are_our_own(exports: dict[str, Path]) -> None:

@@ -6,7 +6,9 @@ object. The window is built as the program builds it (app/cli_commands.py), with
 The dragged vertex is the end of a line at a tee, moved along the through line, so the tee stays
 a tee (or, in a layout without tees, a vertex at a crossing, moved along the crossing line). A
 frame is timed from the edit (``move_vertex`` and ``Document.preview``) through the recompute
-and scene rebuild (``MainWindow.refresh_now``) to a synchronous repaint of the plan view.
+and scene rebuild (``MainWindow.refresh_now``) to a synchronous repaint of the plan view. The
+CPU time of each frame is also split: the analysis pass (``analysis_cpu_*``) and the rest, the
+window's own work on the scene, the canvas items and the repaint (``ui_cpu_median_ms``).
 """
 
 from __future__ import annotations
@@ -18,6 +20,7 @@ import os
 import statistics
 import sys
 import tempfile
+from collections.abc import Callable
 from pathlib import Path
 
 from app.model.elements import Layout
@@ -64,6 +67,21 @@ def sample_drag_target(layout: Layout, result: LayoutResult) -> DragTarget:
     raise SystemExit("the layout has no centerline vertex on a junction of two lines to drag")
 
 
+class _TimedCalls:
+    """Wraps the analysis passes given to the window and adds up their CPU time, so that a frame
+    splits into the analysis and the UI's own work."""
+
+    def __init__(self) -> None:
+        self.cpu_s = 0.0
+
+    def wrap(self, call: Callable[[Layout], LayoutResult]) -> Callable[[Layout], LayoutResult]:
+        def timed_call(layout: Layout) -> LayoutResult:
+            _, cpu_s, result = wall_and_cpu(lambda: call(layout))
+            self.cpu_s += cpu_s
+            return result
+        return timed_call
+
+
 def measure(sample: Path, frames: int) -> dict[str, object]:
     from PySide6 import QtCore, QtWidgets
 
@@ -79,31 +97,39 @@ def measure(sample: Path, frames: int) -> dict[str, object]:
     settings = QtCore.QSettings(settings_file, QtCore.QSettings.Format.IniFormat)
     document = Document(load_layout(sample), sample)
     analyzer = LayoutAnalyzer()
+    analysis = _TimedCalls()
+    full = analysis.wrap(analyzer.analyze)
     live = getattr(analyzer, "analyze_live", None)  # the cheaper pass the program runs during a drag
-    window = (MainWindow(document, analyzer.analyze, settings, analyze_live=live) if live is not None
-              else MainWindow(document, analyzer.analyze, settings))
+    window = (MainWindow(document, full, settings, analyze_live=analysis.wrap(live)) if live is not None
+              else MainWindow(document, full, settings))
     window.resize(*SCREEN_SIZE)
     window.show()
     settle(window)
     assert window.result is not None, "the sample layout could not be analysed"
     target = sample_drag_target(document.layout, window.result)
     start = document.layout
-    walls, cpus = [], []
+    walls, cpus, analysis_cpus = [], [], []
     document.begin_preview()
     for x_m, y_m in drag_positions_m(target, frames):
         def frame(x_m: float = x_m, y_m: float = y_m) -> None:
             document.preview(edits.move_vertex(start, target.centerline_id, target.vertex_index, x_m, y_m))
             window.refresh_now()
             window.canvas.viewport().repaint()
+        analysis.cpu_s = 0.0
         wall, cpu, _ = wall_and_cpu(frame)
         walls.append(1e3 * wall)
         cpus.append(1e3 * cpu)
+        analysis_cpus.append(1e3 * analysis.cpu_s)
         app.processEvents()
     document.cancel_preview()
     window.close()
     return {"drag_frame_ms": walls, "drag_frame_cpu_ms": cpus,
             "drag_frame_median_ms": statistics.median(walls),
             "drag_frame_cpu_median_ms": statistics.median(cpus),
+            # the frame split in CPU time: the analysis pass, and the rest (scene, items, repaint)
+            "analysis_cpu_ms": analysis_cpus,
+            "analysis_cpu_median_ms": statistics.median(analysis_cpus),
+            "ui_cpu_median_ms": statistics.median(c - a for c, a in zip(cpus, analysis_cpus, strict=True)),
             "dragged": f"{target.centerline_id} vertex {target.vertex_index}"}
 
 

@@ -19,7 +19,6 @@ import numpy as np
 from shapely.geometry import LineString
 
 from geometry.aircraft import DesignAircraft
-from geometry.offsets import lateral_offset_m
 from geometry.path import CenterlinePath
 from geometry.primitives import Arc, FloatArray, Point, Straight
 from geometry.sweep import SweptPath
@@ -128,7 +127,6 @@ def rk4_swept_path(path: CenterlinePath, aircraft: DesignAircraft, step_m: float
         tail_xy=body(aircraft.tail_x_m),
         wingtip_left_xy=body(aircraft.wingtip_x_m, half_span),
         wingtip_right_xy=body(aircraft.wingtip_x_m, -half_span),
-        steering_rad=np.arctan2(aircraft.wheelbase_m * np.sin(alpha), aircraft.cmg_m * np.cos(alpha)),
-        gear_offset_m=lateral_offset_m(path, gear, extend_ends=True),
-        left_edge_offset_m=lateral_offset_m(path, left_edge, extend_ends=True),
-        right_edge_offset_m=lateral_offset_m(path, right_edge, extend_ends=True))
+        steering_rad=np.arctan2(aircraft.wheelbase_m * np.sin(alpha), aircraft.cmg_m * np.cos(alpha)))
+    # The offsets are the SweptPath's own: geometry.offsets.lateral_offset_m of the gear and the two
+    # tyre edges, with the path extended along its end tangents, measured on first use.

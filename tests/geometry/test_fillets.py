@@ -15,6 +15,7 @@ from shapely.affinity import scale
 from shapely.geometry import LineString
 from shapely.geometry.base import BaseGeometry
 
+from geometry import fillet_search
 from geometry.aircraft import DesignAircraft
 from geometry.errors import FilletDoesNotFitError, InvalidCornerError, NonFiniteInputError
 from geometry.fillets import OVERLAP_M, Fillet, build_fillet, fit_fillet
@@ -318,3 +319,29 @@ def test_bad_corners_are_refused() -> None:
         build_fillet((0.0, 0.0), 0.0, math.pi / 2, 20.0, 20.0, (40.0, 40.0), 40.0, "k", 30.0, 9.0, 30.0)
     with pytest.raises(NonFiniteInputError):
         build_fillet((0.0, 0.0), 0.0, math.pi / 2, 20.0, 20.0, (40.0, 40.0), 40.0, "k", 30.0, math.nan, 30.0)
+
+
+@FAST
+@given(st.lists(st.tuples(st.floats(-1.0, 2.5), st.floats(5.0, 80.0)), min_size=1, max_size=60),
+       st.floats(0.0, 40.0), st.floats(0.0, 10.0))
+def test_points_left_out_of_the_search_never_set_a_steepest_taper(pairs: list[tuple[float, float]],
+                                                                   low_m: float, width_m: float) -> None:
+    # identity: the search keeps only the points that can set min(polar + acos(F / distance)),
+    # first for every F (fillet_search.front_points), then for F in the narrowed bracket
+    # (fillet_search._binding)
+    polar = np.array([p for p, _ in pairs])
+    distance = np.array([d for _, d in pairs])
+    turn_rad = 3.0
+    everything = fillet_search.SearchPoints(polar[:, None], distance[:, None], (turn_rad - polar)[:, None],
+                                            distance[:, None], 100.0)
+    front_a, distance_a = fillet_search.front_points(polar, distance)
+    negated_b, distance_b = fillet_search.front_points(-polar, distance)
+    front = fillet_search.SearchPoints(front_a[:, None], distance_a[:, None], (turn_rad + negated_b)[:, None],
+                                       distance_b[:, None], 100.0)
+    high_m = low_m + width_m
+    binding = fillet_search._binding(front, low_m, high_m)
+    radii_m = np.linspace(low_m, high_m, 50)
+    expected = fillet_search._steepest(everything, radii_m)
+    for kept in (front, binding):
+        for got, want in zip(fillet_search._steepest(kept, radii_m), expected, strict=True):
+            assert np.array_equal(got, want)

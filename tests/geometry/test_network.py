@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import math
+import random
 from collections.abc import Sequence
 
 import pytest
@@ -228,3 +229,42 @@ def test_an_end_near_the_joint_of_two_pieces_snaps_to_the_nearer_piece() -> None
     ahead = junction.leg(f"{junction.id}|a+")
     assert ahead.station_m == pytest.approx(249.7)  # identity
     assert ahead.straight_length_m == pytest.approx(0.3)  # identity: up to the arc at 250 m
+
+
+def _random_line(rng: random.Random, line_id: str) -> NetworkLine:
+    """Two to four vertices in a 500 m square, with corner radii where they fit (sometimes exactly
+    on a grid line, so that ends, overlaps and crossings at vertices occur)."""
+    for _ in range(50):
+        points = [(float(rng.choice([rng.uniform(0, 500), 100.0 * rng.randrange(6)])),
+                   float(rng.choice([rng.uniform(0, 500), 100.0 * rng.randrange(6)])))
+                  for _ in range(rng.randrange(2, 5))]
+        radii: list[float | None] = [None] + [rng.choice([None, 20.0])] * (len(points) - 2) + [None]
+        try:
+            return NetworkLine(line_id, "taxiway", centerline_segments(points, radii))
+        except ValueError:
+            continue
+    return line(line_id, [(0.0, 0.0), (500.0, 500.0)])
+
+
+@pytest.mark.parametrize("seed", range(6))
+def test_a_long_random_edit_sequence_updates_like_a_fresh_build(seed: int) -> None:
+    rng = random.Random(seed)
+    lines = {item.id: item for item in grid(4)}
+    network = build_network(list(lines.values()))
+    for step in range(40):
+        action = rng.random()
+        if action < 0.15 and len(lines) > 2:
+            del lines[rng.choice(sorted(lines))]
+        elif action < 0.3:
+            lines[f"n{step}"] = _random_line(rng, f"n{step}")
+        else:
+            for line_id in rng.sample(sorted(lines), rng.choice([1, 1, 2, 3])):
+                lines[line_id] = _random_line(rng, line_id)
+        updated = update_network(network, list(lines.values()))
+        fresh = build_network(list(lines.values()))
+        assert updated.junctions == fresh.junctions  # identity: an update must not change a result
+        before = {junction.id: junction for junction in network.junctions}
+        for junction in updated.junctions:
+            if junction.id not in updated.recomputed_ids:
+                assert junction is before[junction.id]  # identity: an untouched junction is kept
+        network = updated

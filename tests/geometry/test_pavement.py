@@ -3,6 +3,7 @@ split into new and existing pavement. Demo aircraft are fictional."""
 
 from __future__ import annotations
 
+import dataclasses
 import math
 
 import numpy as np
@@ -22,6 +23,8 @@ from geometry.pavement import (
     junction_required_area,
     quad_segs_for,
     required_movement_area,
+    required_movement_areas,
+    simplified_tracks,
     split_new_existing,
     straight_pavement,
     summarize_pavement,
@@ -192,6 +195,37 @@ def test_required_area_rejects_bad_margins() -> None:
     with pytest.raises(NonFiniteInputError):
         required_movement_area(swept, math.nan)
     assert required_movement_area(swept, 0.0).area == pytest.approx(tyre_band(swept).area)
+
+
+def test_tyre_band_needs_both_tracks_at_every_station() -> None:
+    swept = _straight_movement(50.0)
+    uneven = dataclasses.replace(swept, gear_right_edge_xy=swept.gear_right_edge_xy[:-1])
+    with pytest.raises(GeometryError):
+        tyre_band(uneven, SIMPLIFY_TOLERANCE_M)
+
+
+def test_simplifying_many_tracks_at_once_equals_one_at_a_time() -> None:
+    rng = np.random.default_rng(7)
+    tracks = [np.cumsum(rng.normal(0.0, 0.01, (count, 2)), axis=0) + np.array([count, 0.0])
+              for count in (2, 3, 50, 400, 17)]
+    together = simplified_tracks(tracks, 0.003)
+    for track, simple in zip(tracks, together, strict=True):
+        alone = shapely.get_coordinates(shapely.simplify(LineString(track), 0.003, preserve_topology=False))
+        assert np.array_equal(simple, alone)  # identity: the same Douglas-Peucker, call by call
+
+
+def test_required_areas_of_many_movements_at_once_equal_one_at_a_time() -> None:
+    plane = demo_aircraft(20.0, 9.0)
+    swept = [sweep(standard_turn_path(radius_m, turn_rad, 40.0, 60.0), plane)
+             for radius_m, turn_rad in ((30.0, 1.2), (45.0, -2.0), (60.0, 0.5))]
+    looping = standard_turn_path(30.0, math.radians(330.0), 60.0, 120.0)
+    swept.append(rk4_swept_path(looping, plane, step_m=0.5))
+    margins_m = [3.0, 4.5, 0.0, 3.0]  # the last band loops over itself: rebuilt piecewise
+    together = required_movement_areas(swept, margins_m)
+    for one, margin_m, area in zip(swept, margins_m, together, strict=True):
+        assert shapely.equals_exact(area, required_movement_area(one, margin_m), 0.0)  # identity
+    with pytest.raises(GeometryError):
+        required_movement_areas(swept, margins_m[:-1])
 
 
 def test_junction_required_area_is_the_union() -> None:

@@ -4,6 +4,7 @@ sampling tolerance and bad input. Demo aircraft are fictional."""
 from __future__ import annotations
 
 import math
+from dataclasses import fields, replace
 
 import numpy as np
 import pytest
@@ -18,12 +19,14 @@ from geometry.errors import (
     NonFiniteInputError,
     RadiusTooSmallError,
 )
+from geometry.offsets import lateral_offset_m
 from geometry.path import CenterlinePath, standard_turn_path
 from geometry.primitives import Arc, Straight
 from geometry.sweep import (
     MIN_RADIUS_FLOOR_M,
     SETTLING_LENGTH_CMG,
     SweptPath,
+    main_gear_track,
     min_radius_for_steering_limit,
     steering_limited_radius_steady_state,
     sweep,
@@ -144,6 +147,43 @@ def test_engine_agrees_with_an_independent_integration_to_0_001_ft(case: str) ->
     assert np.abs(swept.body_angle_rad - reference["body_angle_rad"]).max() < 1e-8
 
 
+@pytest.mark.parametrize("case", ["left U-turn", "S-curve", "short turn, R < CMG",
+                                  "straight with an initial angle"])
+def test_the_main_gear_track_alone_is_the_sweeps_own(case: str) -> None:
+    pieces, alpha0 = REFERENCE_CASES[case]
+    path, aircraft = build_path(pieces, start=(3.0, 4.0), heading_rad=0.3), demo_aircraft()
+    swept = sweep(path, aircraft, chord_tolerance_m=0.01, initial_body_angle_rad=alpha0)
+    gear = main_gear_track(path, aircraft, chord_tolerance_m=0.01, initial_body_angle_rad=alpha0)
+    # identity: the same computation without the other tracks, so the very same values
+    for name in ("station_m", "cockpit_xy", "body_heading_rad", "body_angle_rad", "main_gear_xy"):
+        assert np.array_equal(getattr(gear, name), getattr(swept, name)), name
+
+
+def test_the_main_gear_track_refuses_what_the_sweep_refuses() -> None:
+    path = standard_turn_path(12.0, math.radians(150.0), 100.0, 100.0)
+    with pytest.raises(RadiusTooSmallError, match="roll backwards"):  # identity: the same check
+        main_gear_track(path, demo_aircraft(cmg_m=25.0, wheelbase_m=23.0))
+    with pytest.raises(InvalidSweepSettingError):  # identity: the same settings check
+        main_gear_track(path, demo_aircraft(), chord_tolerance_m=0.0)
+
+
+def test_offsets_measured_on_first_use_are_the_lateral_offsets_of_the_gear_tracks() -> None:
+    pieces, alpha0 = REFERENCE_CASES["S-curve"]
+    path, aircraft = build_path(pieces), demo_aircraft()
+    swept = sweep(path, aircraft, initial_body_angle_rad=alpha0)
+    # identity: what the offsets are defined as (module docstring of geometry.sweep)
+    for track, offsets in (("main_gear_xy", "gear_offset_m"), ("gear_left_edge_xy", "left_edge_offset_m"),
+                           ("gear_right_edge_xy", "right_edge_offset_m")):
+        expected = lateral_offset_m(path, getattr(swept, track), extend_ends=True)
+        assert np.array_equal(getattr(swept, offsets), expected), offsets
+    assert swept.gear_offset_m is swept.gear_offset_m  # identity: measured once, then kept
+    # identity: a copy with fewer stations (as the layout analysis trims them) measures its own
+    keep = swept.station_m >= aircraft.cmg_m
+    trimmed = replace(swept, **{field.name: getattr(swept, field.name)[keep] for field in fields(SweptPath)
+                                if isinstance(getattr(swept, field.name), np.ndarray)})
+    assert np.array_equal(trimmed.left_edge_offset_m, swept.left_edge_offset_m[keep])
+
+
 # --- sampling ----------------------------------------------------------------------------------
 
 @pytest.mark.parametrize("tolerance_m", [0.003, 0.05])
@@ -235,7 +275,9 @@ def test_no_nan_leaves_the_engine(pieces: list[tuple[str, float, float]], aircra
     except RadiusTooSmallError as error:
         assert "roll backwards" in str(error)
         return
-    for name in SweptPath.__slots__:
+    # The offsets are properties measured on first use, not slots: named here so they are checked too.
+    for name in (*(field.name for field in fields(SweptPath)), "gear_offset_m", "left_edge_offset_m",
+                 "right_edge_offset_m"):
         value = getattr(swept, name)
         if isinstance(value, np.ndarray):
             assert np.isfinite(value).all(), name

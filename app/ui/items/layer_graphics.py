@@ -1,15 +1,21 @@
-"""One scene layer on the plan view: ONE curve item per style (NaN-separated pieces), one scatter
-per point style, a few text labels. Filled styles use ``fillLevel="enclosed"`` without
-antialiasing (shared/ECOSYSTEM.md: about 7 times faster, and edges are drawn by a stroke style).
+"""One scene layer on the plan view: ONE path item per style (NaN-separated pieces, see
+:mod:`app.ui.items.shape_item`), one scatter per point style, a few text labels. Filled styles
+are filled without antialiasing (shared/ECOSYSTEM.md: about 7 times faster, and edges are drawn
+by a stroke style). A point set or label equal to the one shown is left alone: a drag changes
+one vertex and the junction markers near it, not the labels or the findings.
 """
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 import pyqtgraph as pg
+from PySide6 import QtWidgets
 
 from app.model.scene import LayerData, PointSet, Shape
 from app.ui import style
+from app.ui.items.shape_item import ShapeItem
 from app.ui.style import Theme
 
 
@@ -20,9 +26,14 @@ class PassiveScatter(pg.ScatterPlotItem):
         ev.ignore()  # type: ignore[attr-defined]
 
 
-def _xy_columns(xy: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    return (np.ascontiguousarray(xy[:, 0]), np.ascontiguousarray(xy[:, 1])) if len(xy) else (
-        np.empty(0), np.empty(0))
+# Symbols and labels are painted from a pixmap while they do not change: repainting them took
+# pyqtgraph about a millisecond a scatter (culling and placing every symbol in Python).
+_PIXMAP_CACHE = QtWidgets.QGraphicsItem.CacheMode.DeviceCoordinateCache
+
+
+def _same_points(a: PointSet | None, b: PointSet) -> bool:
+    return a is b or (a is not None and a.labels == b.labels and a.keys == b.keys
+                      and a.xy.shape == b.xy.shape and bool(np.array_equal(a.xy, b.xy)))
 
 
 class LayerGraphics:
@@ -37,11 +48,14 @@ class LayerGraphics:
         self._z = z_value
         self._theme = theme
         self._routed = routed_points  # point styles another item draws (vertex handles)
-        self._curves: dict[tuple[str, bool], pg.PlotCurveItem] = {}
+        self._curves: dict[tuple[str, bool], ShapeItem] = {}
         self._scatters: dict[str, PassiveScatter] = {}
+        self._shown_points: dict[str, PointSet] = {}  # what each scatter or label run shows
         self._labels: list[pg.TextItem] = []
+        self._label_texts: list[tuple[str, float, float]] = []
         self._label_count = 0
         self._visible = True
+        self._draft = False  # a drag previews: see style.DRAFT_STYLES
         self._data: LayerData | None = None
 
     @property
@@ -59,11 +73,22 @@ class LayerGraphics:
     def is_visible(self) -> bool:
         return self._visible
 
+    def set_draft(self, draft: bool) -> None:
+        """Draw the styles of ``style.DRAFT_STYLES`` in their quick look (while a drag previews)."""
+        if draft == self._draft:
+            return
+        self._draft = draft
+        for key, curve in self._curves.items():
+            if key[0] in style.DRAFT_STYLES:
+                self._style_curve(curve, *key)
+
     def set_theme(self, theme: Theme) -> None:
         self._theme = theme
         if self._data is not None:
             for key, curve in self._curves.items():
                 self._style_curve(curve, *key)
+            self._shown_points.clear()
+            self._label_texts = [("", math.nan, math.nan)] * len(self._labels)
             self._show_points(self._data.points)
 
     def set_data(self, layer: LayerData) -> None:
@@ -74,7 +99,7 @@ class LayerGraphics:
         drawn = {(shape.style, shape.filled) for shape in layer.shapes}
         for key, curve in self._curves.items():
             if key not in drawn:
-                curve.setData(x=np.empty(0), y=np.empty(0))
+                curve.set_parts(())
                 curve.setVisible(False)
         self._show_points(layer.points)
 
@@ -82,27 +107,23 @@ class LayerGraphics:
         key = (shape.style, shape.filled)
         curve = self._curves.get(key)
         if curve is None:
-            curve = pg.PlotCurveItem(connect="finite", skipFiniteCheck=False)
+            curve = ShapeItem(shape.filled)
             curve.setZValue(self._z + (0.0 if shape.filled else 1.0))
             self._style_curve(curve, *key)
             self._view_box.addItem(curve, ignoreBounds=True)
             self._curves[key] = curve
-        x, y = _xy_columns(shape.xy)
-        curve.setData(x=x, y=y, connect="finite")
-        curve.setVisible(self._visible and len(x) > 0)
+        parts = shape.drawn_parts
+        if len(parts) != len(curve.parts) or any(a is not b for a, b in zip(parts, curve.parts, strict=True)):
+            curve.set_parts(parts)
+        curve.setVisible(self._visible and curve.has_content())
 
-    def _style_curve(self, curve: pg.PlotCurveItem, style_key: str, filled: bool) -> None:
+    def _style_curve(self, curve: ShapeItem, style_key: str, filled: bool) -> None:
         if filled:
-            curve.setPen(None)
-            curve.setBrush(style.brush(style_key, self._theme))
-            curve.setFillLevel("enclosed")
-            curve.opts["antialias"] = False
+            curve.set_look(None, style.brush(style_key, self._theme))
+        elif self._draft and style_key in style.DRAFT_STYLES:
+            curve.set_look(style.draft_pen(style_key, self._theme), None)
         else:
-            curve.setPen(style.pen(style_key, self._theme))
-            curve.setBrush(None)
-            curve.setFillLevel(None)
-            curve.opts["antialias"] = True
-        curve.update()
+            curve.set_look(style.pen(style_key, self._theme), None)
 
     def _show_points(self, point_sets: tuple[PointSet, ...]) -> None:
         label_index = 0
@@ -112,9 +133,13 @@ class LayerGraphics:
             if points.labels and points.style.endswith(".label"):
                 label_index = self._show_labels(points, label_index)
                 continue
+            if _same_points(self._shown_points.get(points.style), points):
+                continue
+            self._shown_points[points.style] = points
             self._scatter(points.style).setData(
                 pos=points.xy, symbol=style.look(points.style).symbol, size=style.look(points.style).size,
-                pen=style.pen(points.style, self._theme), brush=style.brush(points.style, self._theme),
+                pen=style.shared_pen(points.style, self._theme),
+                brush=style.shared_brush(points.style, self._theme),
                 pxMode=True)
             self._scatters[points.style].setVisible(self._visible and len(points.xy) > 0)
         for extra in self._labels[label_index:]:
@@ -125,6 +150,7 @@ class LayerGraphics:
         scatter = self._scatters.get(style_key)
         if scatter is None:
             scatter = PassiveScatter()
+            scatter.setCacheMode(_PIXMAP_CACHE)
             scatter.setZValue(self._z + 2.0)
             self._view_box.addItem(scatter, ignoreBounds=True)
             self._scatters[style_key] = scatter
@@ -136,18 +162,25 @@ class LayerGraphics:
             index = start + offset
             if index == len(self._labels):
                 label = pg.TextItem(anchor=(0.0, 1.0))
+                label.setCacheMode(_PIXMAP_CACHE)
                 label.setZValue(self._z + 3.0)
                 self._view_box.addItem(label, ignoreBounds=True)
                 self._labels.append(label)
+                self._label_texts.append(("", math.nan, math.nan))
             label = self._labels[index]
-            label.setText(text, color=colour)
-            label.setPos(float(xy[0]), float(xy[1]))
+            shown = (text, float(xy[0]), float(xy[1]))
+            before = self._label_texts[index]
+            if before[0] != text:
+                label.setText(text, color=colour)  # lays the text out again: only when it changed
+            if before[1:] != shown[1:]:
+                label.setPos(shown[1], shown[2])
+            self._label_texts[index] = shown
             label.setVisible(self._visible)
         return start + len(points.labels)
 
     def _has_content(self, item: pg.GraphicsObject) -> bool:
-        if isinstance(item, pg.PlotCurveItem):
-            return item.xData is not None and len(item.xData) > 0
+        if isinstance(item, ShapeItem):
+            return item.has_content()
         if isinstance(item, pg.ScatterPlotItem):
             return len(item.data) > 0
         return item in self._labels[:self._label_count]

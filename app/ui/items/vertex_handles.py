@@ -41,8 +41,8 @@ class VertexHandles(pg.GraphItem):
             pos=np.concatenate([points.xy for points in shown]), adj=None, pen=None, pxMode=True,
             symbol=[style.look(p.style).symbol for p in shown for _ in range(len(p.xy))],
             size=[style.look(p.style).size for p in shown for _ in range(len(p.xy))],
-            symbolPen=[style.pen(p.style, theme) for p in shown for _ in range(len(p.xy))],
-            symbolBrush=[style.brush(p.style, theme) for p in shown for _ in range(len(p.xy))])
+            symbolPen=[style.shared_pen(p.style, theme) for p in shown for _ in range(len(p.xy))],
+            symbolBrush=[style.shared_brush(p.style, theme) for p in shown for _ in range(len(p.xy))])
 
     def count(self) -> int:
         return 0 if self.pos is None else len(self.pos)

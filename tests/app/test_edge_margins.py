@@ -1,0 +1,71 @@
+"""Edge margins measured with numpy against shapely's own distance, and their signs."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import shapely
+from hypothesis import given, settings
+from hypothesis import strategies as st
+from shapely.geometry import LineString, MultiLineString, Polygon
+
+from app.model.edge_margins import MARGIN_REACH_M, edge_distances_m, edge_segments, signed_margins
+
+FAST = settings(max_examples=40, deadline=None)
+
+
+def _reference_m(points: np.ndarray, edge: shapely.Geometry) -> np.ndarray:
+    """shapely's distance of each point to the edge, capped like the margins (identity)."""
+    return np.minimum(shapely.distance(edge, shapely.points(points)), MARGIN_REACH_M)
+
+
+def _track(seed: int, count: int, step_m: float = 1.0) -> np.ndarray:
+    """A wandering track of ``count`` points about ``step_m`` apart (like the plot stations)."""
+    rng = np.random.default_rng(seed)
+    heading = np.cumsum(rng.normal(0.0, 0.15, count))
+    steps = step_m * np.column_stack((np.cos(heading), np.sin(heading)))
+    return np.cumsum(steps, axis=0) + rng.uniform(-40.0, 40.0, 2)
+
+
+@FAST
+@given(st.integers(0, 10_000), st.integers(1, 300), st.floats(3.0, 80.0))
+def test_distances_equal_shapely_on_a_polygon_edge(seed: int, count: int, size_m: float) -> None:
+    rng = np.random.default_rng(seed)
+    angles = np.sort(rng.uniform(0.0, 2.0 * math.pi, 40))
+    radii = size_m * rng.uniform(0.5, 1.0, 40)
+    pavement = shapely.make_valid(Polygon(np.column_stack((radii * np.cos(angles), radii * np.sin(angles)))))
+    edge = pavement.boundary
+    points = _track(seed, count)
+    distances = edge_distances_m(points, edge_segments(edge))
+    assert np.allclose(distances, _reference_m(points, edge), rtol=0.0, atol=1e-9)  # identity
+
+
+def test_distances_to_a_dense_curved_edge_with_several_parts() -> None:
+    theta = np.linspace(0.0, 1.5 * math.pi, 2000)  # many short segments, like a flattened fillet arc
+    arc = np.column_stack((30.0 * np.cos(theta), 30.0 * np.sin(theta)))
+    edge = MultiLineString([arc, [(-50.0, -50.0), (50.0, -45.0)], [(5.0, 5.0), (5.0, 5.0 + 1e-12)]])
+    points = np.vstack((_track(3, 500, 0.7), _track(4, 37, 2.0), [[0.0, 0.0], [500.0, 500.0]]))
+    distances = edge_distances_m(points, edge_segments(edge))
+    assert np.allclose(distances, _reference_m(points, edge), rtol=0.0, atol=1e-9)  # identity
+    assert distances[-1] == MARGIN_REACH_M  # far from every edge: capped (identity)
+
+
+def test_zero_length_segments_act_as_points() -> None:
+    edge = LineString([(0.0, 0.0), (0.0, 0.0), (10.0, 0.0), (10.0, 0.0)])
+    points = np.array([[-3.0, 4.0], [5.0, 2.0], [13.0, -4.0]])
+    assert np.allclose(edge_distances_m(points, edge_segments(edge)), [5.0, 2.0, 5.0])  # identity: 3-4-5
+
+
+def test_no_edge_or_no_points() -> None:
+    assert np.array_equal(edge_distances_m(np.array([[1.0, 2.0]]), edge_segments(LineString())),
+                          [MARGIN_REACH_M])  # identity: nothing to measure to
+    assert edge_distances_m(np.empty((0, 2)), edge_segments(LineString([(0, 0), (1, 0)]))).shape == (0,)
+
+
+def test_margins_are_positive_inside_and_negative_outside() -> None:
+    pavement = shapely.box(0.0, 0.0, 20.0, 10.0)
+    shapely.prepare(pavement)
+    points = np.array([[5.0, 3.0], [25.0, 5.0], [10.0, 9.5]])
+    margins = signed_margins(points, pavement, edge_segments(pavement.boundary))
+    assert np.allclose(margins, [3.0, -5.0, 0.5])  # identity: distances to the box's sides
