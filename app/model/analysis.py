@@ -65,6 +65,11 @@ class LayoutAnalyzer:
         self._network: JunctionNetwork | None = None
         self._last_findings: tuple[Finding, ...] | None = None
         self._key_memo: dict[tuple[object, ...], tuple[Junction, tuple[object, ...]]] = {}
+        self._cap_memo: dict[tuple[object, ...], float] = {}
+        # The last pass's settings and each junction's (object, result): while the settings hold, a
+        # junction the network handed back unchanged (the very same object) keeps its result.
+        self._last_settings: tuple[object, ...] | None = None
+        self._last_found: dict[str, tuple[Junction, tuple[JunctionResult, tuple[str, ...]]]] = {}
         self._lines: dict[tuple[object, ...], NetworkLine] = {}
         self._bends = BendFinder()
         self._check_inputs = CheckInputsBuilder()
@@ -111,11 +116,18 @@ class LayoutAnalyzer:
         memo_key = (id(junction), context, overrides)
         found = self._key_memo.get(memo_key)
         if found is None or found[0] is not junction:
-            found = self._key_memo[memo_key] = (junction, _junction_key(junction, context, dict(overrides)))
+            # The length cap depends on the legs' headings and kinds only: a junction rebuilt with the
+            # same legs (all those along a dragged line) reuses it.
+            shape = (tuple((leg.heading_rad, leg.line_kind) for leg in junction.legs), context, overrides)
+            cap_m = self._cap_memo.get(shape)
+            if cap_m is None:
+                cap_m = self._cap_memo[shape] = _relevant_length_m(junction, context, dict(overrides))
+            found = self._key_memo[memo_key] = (junction, _junction_key(junction, cap_m))
         return found[1]
 
     def _prune(self, limit: int = 20000) -> None:
         for cache in (self._geometry, self._straights, self._polylines, self._junctions, self._key_memo,
+                      self._cap_memo,
                       self._lines):
             if len(cache) > limit:
                 cache.clear()
@@ -177,7 +189,15 @@ class LayoutAnalyzer:
         # A bend turns on the planner's corner radius (unless overridden like any corner).
         overrides = {bend.corner_key: bend.corner_radius_m for bend in bends if bend.corner_radius_m}
         overrides.update(layout.turn_radius_overrides_m)
+        settings = (context, layout.excluded_movements, overrides, widths, full)
+        unchanged = self._last_settings is not None and self._last_settings == settings
+        last_found, self._last_found, self._last_settings = self._last_found, {}, settings
         for junction in (*network.junctions, *(bend.junction for bend in bends)):
+            last = last_found.get(junction.id)
+            if unchanged and last is not None and last[0] is junction:
+                results[junction.id], problems[junction.id] = last[1]
+                self._last_found[junction.id] = last
+                continue
             prefix = junction.id + "|"
             excluded = frozenset(k for k in layout.excluded_movements if k.startswith(prefix))
             own_overrides = tuple(sorted((k, v) for k, v in overrides.items() if k.startswith(prefix)))
@@ -194,6 +214,7 @@ class LayoutAnalyzer:
                 self._junctions[key] = found
                 recomputed += 1
             results[junction.id], problems[junction.id] = found
+            self._last_found[junction.id] = (junction, found)
         self.last_recomputed_junctions = recomputed
         return results, {k: v for k, v in problems.items() if v}
 
@@ -246,11 +267,10 @@ def _relevant_length_m(junction: Junction, context: DesignContext, overrides: di
     return tangent_m + max(LEAD_IN_IN_CMG, LEAD_OUT_IN_CMG) * cmg_m + 1.0
 
 
-def _junction_key(junction: Junction, context: DesignContext,
-                  overrides: dict[str, float]) -> tuple[object, ...]:
+def _junction_key(junction: Junction, cap_m: float) -> tuple[object, ...]:
     """What of a junction its result depends on: not the stations along its lines, and leg lengths
-    only up to what its movements use, so that moving a distant vertex does not recompute it."""
-    cap_m = _relevant_length_m(junction, context, overrides)
+    only up to what its movements use (``cap_m``, :func:`_relevant_length_m`), so that moving a
+    distant vertex does not recompute it."""
     legs = tuple((leg.id, leg.line_id, leg.line_kind, leg.heading_rad, min(leg.length_m, cap_m),
                   min(leg.straight_length_m, cap_m), leg.direction) for leg in junction.legs)
     return (junction.id, junction.point, junction.kind, legs)
