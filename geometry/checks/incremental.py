@@ -44,7 +44,8 @@ from geometry.checks.common import CheckContext, usable_objects
 from geometry.checks.crossovers import ReversalSteering, check_crossover_spacing, check_reversal_steering
 from geometry.checks.inputs import CheckInputs, LineInfo, MovementInfo
 from geometry.checks.junction_rules import paths_findings
-from geometry.checks.overlaps import overlap_candidates, overlap_findings
+from geometry.checks.near_pairs import NearPairs
+from geometry.checks.overlaps import OVERLAP_DISTANCE_M, overlap_findings
 from geometry.checks.pair_memory import PairPieceMemory
 from geometry.checks.parallel_pieces import (
     Pieces,
@@ -171,6 +172,8 @@ class IncrementalChecks:
         self._line_ids: dict[int, tuple[Junction, tuple[str, ...]]] = {}
         self._aircraft: dict[str, tuple[Group, frozenset[DesignAircraft]]] = {}
         self._pair_pieces = PairPieceMemory()
+        self._separation_pairs = NearPairs()
+        self._overlap_pairs = NearPairs()
         self._radii = SteeringRadii()
         self._reversals = ReversalSteering()
         self.recomputed_items = 0  # in the last run (for tests and benchmarks)
@@ -367,8 +370,7 @@ class IncrementalChecks:
             return (), _none
         reach_m = separation_reach_m(context)
         geometries = [context.geometry(info.line.id) for info in infos]
-        left, right = shapely.STRtree(geometries).query(geometries, predicate="dwithin", distance=reach_m)
-        pairs = sorted((i, j) for i, j in zip(left.tolist(), right.tolist(), strict=True) if i < j)
+        pairs = self._separation_pairs.pairs([info.line.id for info in infos], geometries, reach_m)
         pair_pieces = self._pair_pieces
 
         def evaluate(a: LineInfo, b: LineInfo, junctions: tuple[Junction, ...]) -> tuple[list[Finding], None]:
@@ -504,7 +506,8 @@ class IncrementalChecks:
         geometries = [context.geometry(info.line.id) for info in infos]
 
         def items(memory: dict[Hashable, _Outcome]) -> Iterator[_Item | _Outcome]:
-            for i, j in overlap_candidates(geometries):
+            for i, j in self._overlap_pairs.pairs([info.line.id for info in infos], geometries,
+                                                  OVERLAP_DISTANCE_M):
                 a, b = infos[i], infos[j]
                 key = (a.line.id, b.line.id)
                 known = memory.get(key)
