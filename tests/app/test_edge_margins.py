@@ -10,7 +10,13 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from shapely.geometry import LineString, MultiLineString, Polygon
 
-from app.model.edge_margins import MARGIN_REACH_M, edge_distances_m, edge_segments, signed_margins
+from app.model.edge_margins import (
+    MARGIN_REACH_M,
+    TREE_ABOVE_SEGMENTS,
+    edge_distances_m,
+    edge_segments,
+    signed_margins,
+)
 
 FAST = settings(max_examples=40, deadline=None)
 
@@ -69,3 +75,16 @@ def test_margins_are_positive_inside_and_negative_outside() -> None:
     points = np.array([[5.0, 3.0], [25.0, 5.0], [10.0, 9.5]])
     margins = signed_margins(points, pavement, edge_segments(pavement.boundary))
     assert np.allclose(margins, [3.0, -5.0, 0.5])  # identity: distances to the box's sides
+
+
+def test_the_tree_search_for_large_edges_gives_the_block_distances() -> None:
+    # A long wavy edge of 3,000 segments (above TREE_ABOVE_SEGMENTS), points near and far from it.
+    t = np.linspace(0.0, 60.0, 3001)
+    edge = shapely.LineString(np.column_stack((20.0 * t, 15.0 * np.sin(t))))
+    segments = edge_segments(edge)
+    assert segments.count > TREE_ABOVE_SEGMENTS  # identity (the case under test)
+    rng = np.random.default_rng(3)
+    points = np.column_stack((rng.uniform(-50.0, 1250.0, 900), rng.uniform(-120.0, 120.0, 900)))
+    by_tree = edge_distances_m(points, segments)
+    exact = np.minimum(shapely.distance(edge, shapely.points(points)), MARGIN_REACH_M)
+    assert np.abs(by_tree - exact).max() < 1e-9  # identity (the same Euclidean distance)
