@@ -127,8 +127,7 @@ class LayoutAnalyzer:
 
     def _prune(self, limit: int = 20000) -> None:
         for cache in (self._geometry, self._straights, self._polylines, self._junctions, self._key_memo,
-                      self._cap_memo,
-                      self._lines):
+                      self._cap_memo, self._lines):
             if len(cache) > limit:
                 cache.clear()
 

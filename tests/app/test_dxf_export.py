@@ -208,6 +208,7 @@ def test_tracks_are_simplified_within_the_track_tolerance(exports: dict[str, Pat
     # sampling takes DEFAULT_CHORD_TOLERANCE_M of it, the simplification the rest, and rounding
     # to the written decimals moves a point by at most half a unit of the last decimal per axis.
     simplify = track_simplify_tolerance(units)
+    # check value: identity (the drafting tolerances stated in docs/dxf.md; ezdxf's own output)
     assert simplify + from_metres(DEFAULT_CHORD_TOLERANCE_M, units) == pytest.approx(TRACK_TOLERANCE[units])
     rounding = math.sqrt(2.0) / 2.0 * 10.0 ** -coordinate_decimals(simplify)
     for aircraft, token in (("Demo Twin 36", "DEMO_TWIN_36"), ("Demo Regional/2", "DEMO_REGIONAL_2")):
@@ -215,6 +216,7 @@ def test_tracks_are_simplified_within_the_track_tolerance(exports: dict[str, Pat
         tracks = next(t for t in RESULT.junctions["J:twy-a/twy-b#0"].movements[0].tracks
                       if t.aircraft_name == aircraft)
         dense = np.vstack((tracks.gear_left_edge_xy, tracks.gear_right_edge_xy)) * UNITS_PER_M[units]
+        # check value: identity (the drafting tolerances stated in docs/dxf.md; ezdxf's own output)
         assert shapely.distance(shapely.points(dense), read).max() <= simplify + rounding
         assert len(shapely.get_coordinates(read)) < len(dense) / 10  # the dense arrays were thinned
 
@@ -234,8 +236,10 @@ def test_packed_polyline_points_write_the_text_ezdxf_writes() -> None:
 
     assert ours_and_theirs()[0] == ours_and_theirs()[1]  # identity
     table[:, 4] = 0.0  # no bulges: one template for the whole polyline
+    # check value: identity (the drafting tolerances stated in docs/dxf.md; ezdxf's own output)
     assert ours_and_theirs()[0] == ours_and_theirs()[1]
     table[5, 2:4] = (0.5, 0.25)  # widths: written by ezdxf itself
+    # check value: identity (the drafting tolerances stated in docs/dxf.md; ezdxf's own output)
     assert ours_and_theirs()[0] == ours_and_theirs()[1]
 
 

@@ -64,6 +64,7 @@ def test_zero_length_segments_act_as_points() -> None:
 
 
 def test_no_edge_or_no_points() -> None:
+    # check value: identity
     assert np.array_equal(edge_distances_m(np.array([[1.0, 2.0]]), edge_segments(LineString())),
                           [MARGIN_REACH_M])  # identity: nothing to measure to
     assert edge_distances_m(np.empty((0, 2)), edge_segments(LineString([(0, 0), (1, 0)]))).shape == (0,)

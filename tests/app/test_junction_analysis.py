@@ -21,7 +21,9 @@ def test_stations_before_the_gear_reaches_the_path_are_dropped_from_every_array(
     for field in dataclasses.fields(swept):
         value = getattr(swept, field.name)
         if isinstance(value, np.ndarray):
+            # check value: identity
             assert np.array_equal(getattr(trimmed, field.name), value[keep])
+    # check value: identity
     assert trimmed.path is swept.path and trimmed.aircraft is swept.aircraft
 
 

@@ -20,4 +20,5 @@ def test_plot_stations_are_the_first_station_at_or_past_each_metre(steps_m: list
     wanted = np.arange(station_m[0], station_m[-1], PLOT_STEP_M)
     # identity: one index per wanted station (the first at or past it), plus the last, without repeats
     expected = np.unique(np.append(np.searchsorted(station_m, wanted), len(station_m) - 1))
+    # check value: identity
     assert np.array_equal(picked, expected)

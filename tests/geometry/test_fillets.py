@@ -344,4 +344,5 @@ def test_points_left_out_of_the_search_never_set_a_steepest_taper(pairs: list[tu
     expected = fillet_search._steepest(everything, radii_m)
     for kept in (front, binding):
         for got, want in zip(fillet_search._steepest(kept, radii_m), expected, strict=True):
+            # check value: identity
             assert np.array_equal(got, want)

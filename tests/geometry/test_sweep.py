@@ -156,6 +156,7 @@ def test_the_main_gear_track_alone_is_the_sweeps_own(case: str) -> None:
     gear = main_gear_track(path, aircraft, chord_tolerance_m=0.01, initial_body_angle_rad=alpha0)
     # identity: the same computation without the other tracks, so the very same values
     for name in ("station_m", "cockpit_xy", "body_heading_rad", "body_angle_rad", "main_gear_xy"):
+        # check value: identity
         assert np.array_equal(getattr(gear, name), getattr(swept, name)), name
 
 
@@ -175,12 +176,14 @@ def test_offsets_measured_on_first_use_are_the_lateral_offsets_of_the_gear_track
     for track, offsets in (("main_gear_xy", "gear_offset_m"), ("gear_left_edge_xy", "left_edge_offset_m"),
                            ("gear_right_edge_xy", "right_edge_offset_m")):
         expected = lateral_offset_m(path, getattr(swept, track), extend_ends=True)
+        # check value: identity
         assert np.array_equal(getattr(swept, offsets), expected), offsets
     assert swept.gear_offset_m is swept.gear_offset_m  # identity: measured once, then kept
     # identity: a copy with fewer stations (as the layout analysis trims them) measures its own
     keep = swept.station_m >= aircraft.cmg_m
     trimmed = replace(swept, **{field.name: getattr(swept, field.name)[keep] for field in fields(SweptPath)
                                 if isinstance(getattr(swept, field.name), np.ndarray)})
+    # check value: identity
     assert np.array_equal(trimmed.left_edge_offset_m, swept.left_edge_offset_m[keep])
 
 

@@ -32,6 +32,7 @@ def live_window(qtbot, settings: QtCore.QSettings) -> MainWindow:  # type: ignor
     window.resize(1300, 850)
     window.show()
     qtbot.waitExposed(window)
+    # check value: identity
     assert settle(window)
     return window
 
@@ -77,7 +78,9 @@ def test_dashed_outlines_take_their_quick_look_only_while_a_drag_previews(qtbot,
     # identity: the dashes keep their length on screen (pattern in pen widths, scaled by the width)
     assert required._pen.dashPattern() == [length * full_width for length in style.LOOKS[key[0]].dash or ()]
     window.document.end_preview("Move point")
+    # check value: identity
     assert settle(window)
+    # check value: identity
     assert required._pen.widthF() == full_width
 
 
@@ -89,13 +92,18 @@ def test_the_drawing_at_the_end_of_a_drag_is_the_drawing_of_the_layout_shown_afr
         preview_frame(window, x_m)
         window.canvas.viewport().repaint()
     window.document.end_preview("Move point")
+    # check value: identity
     assert settle(window)
     window.tools.set_selection(window.tools.selection.__class__())
+    # check value: identity
     assert settle(window)
     fresh = live_window(qtbot, settings)
     fresh.document.execute("Same layout", window.document.layout)
+    # check value: identity
     assert settle(fresh)
     fresh.canvas.view_box.setRange(rect=window.canvas.visible_rect_m(), padding=0.0)
+    # check value: identity
     assert settle(fresh)
+    # check value: identity
     assert window.canvas.view_box.viewRange() == fresh.canvas.view_box.viewRange()
     assert np.array_equal(image(window), image(fresh))  # identity: the same layout, the same view

@@ -36,9 +36,11 @@ def test_a_part_shown_again_keeps_its_drawn_copy_and_a_new_one_is_drawn(qtbot) -
     path = item.path()
     assert path.elementCount() < 400  # common practice, no source: 4,000 points thinned to the screen
     item.set_parts((first.copy(), second.copy()))  # equal points: nothing to redraw
+    # check value: identity
     assert item.path() is path
     moved = second + np.array([0.0, 1.0])
     item.set_parts((first, moved))
+    # check value: identity
     assert item.path() is not path
     # identity: the copy of the part shown before is kept by identity, the replaced one is gone
     assert item._drawn[id(first)].part is first and id(second) not in item._drawn
@@ -51,6 +53,8 @@ def test_the_bounds_hold_the_exact_outline(qtbot) -> None:  # type: ignore[no-un
     xy = pieces[0][~np.isnan(pieces[0][:, 0])]
     # identity: every exact point lies inside the drawn item's bounds
     assert bounds.left() <= xy[:, 0].min() and xy[:, 0].max() <= bounds.right()
+    # check value: identity
     assert bounds.top() <= xy[:, 1].min() and xy[:, 1].max() <= bounds.bottom()
     item.set_parts(())
+    # check value: identity
     assert not item.has_content() and item.boundingRect().isEmpty()

@@ -27,6 +27,7 @@ def test_every_exact_point_stays_within_the_tolerance_of_the_drawn_line() -> Non
     for exact, thinned in zip(pieces, drawn, strict=True):
         # identity: Douglas-Peucker keeps the ends and every left-out point within the tolerance
         assert np.array_equal(thinned[[0, -1]], exact[[0, -1]])
+        # check value: identity (the thinning rule of app/ui/items/thinning.py)
         assert shapely.distance(shapely.LineString(thinned), shapely.points(exact)).max() <= 0.5 + 1e-9
 
 
@@ -45,12 +46,14 @@ def test_a_long_polyline_with_a_lone_point_drops_the_point() -> None:
     points, connect = thinned_polylines(xy, 0.01)
     # identity: a straight line thins to its two ends; the one-point piece draws nothing
     assert points.tolist() == [[0.0, 0.0], [100.0, 0.0], [0.0, 10.0], [100.0, 10.0]]
+    # check value: identity (the thinning rule of app/ui/items/thinning.py)
     assert connect.tolist() == [True, False, True, False]
 
 
 def test_empty_and_single_point_inputs_draw_nothing() -> None:
     for xy in (np.empty((0, 2)), np.array([[1.0, 2.0]]), np.array([[np.nan, np.nan]])):
         points, connect = thinned_polylines(xy, 0.5)
+        # check value: identity (the thinning rule of app/ui/items/thinning.py)
         assert len(points) == len(connect) and not connect.any()
 
 
@@ -59,5 +62,7 @@ def test_the_tolerance_is_a_fraction_of_a_pixel_in_steps_of_two(pixel_m: float) 
     tolerance_m = detail_tolerance_m(pixel_m, 0.2)
     # identity: rounded down to a power of two of the pixel, so between half and all of 0.2 px
     assert 0.1 * pixel_m < tolerance_m <= 0.2 * pixel_m
+    # check value: identity (the thinning rule of app/ui/items/thinning.py)
     assert detail_tolerance_m(pixel_m * 1.01, 0.2) in (tolerance_m, 2.0 * tolerance_m)
+    # check value: identity (the thinning rule of app/ui/items/thinning.py)
     assert detail_tolerance_m(0.0, 0.2) == 0.0 and detail_tolerance_m(float("nan"), 0.2) == 0.0
