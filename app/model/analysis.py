@@ -20,8 +20,15 @@ from app.model.bends import Bend, BendFinder, Reversal
 from app.model.check_inputs import CheckInputsBuilder
 from app.model.design_context import DesignContext, context_for, default_radius_m, line_width_m, rules_problem
 from app.model.elements import Centerline, Layout, Runway
-from app.model.junction_analysis import LEAD_IN_IN_CMG, LEAD_OUT_IN_CMG, JunctionInputs, analyze_junction
+from app.model.junction_analysis import (
+    LEAD_IN_IN_CMG,
+    LEAD_OUT_IN_CMG,
+    JunctionInputs,
+    SweptTurn,
+    analyze_junction,
+)
 from app.model.results import JunctionResult, LayoutResult
+from app.model.turn_memory import TurnMemory
 from app.model.unions import LazyGeometry, TiledUnion
 from geometry.centerline import centerline_segments, flatten
 from geometry.checks import IncrementalChecks
@@ -74,6 +81,7 @@ class LayoutAnalyzer:
         self._bends = BendFinder()
         self._check_inputs = CheckInputsBuilder()
         self._checks = IncrementalChecks()
+        self._turns: TurnMemory[SweptTurn] = TurnMemory()
         self._total_union = TiledUnion()
         self._existing: tuple[tuple[object, ...], BaseGeometry] | None = None
         self.last_recomputed_junctions = 0
@@ -130,6 +138,11 @@ class LayoutAnalyzer:
                       self._cap_memo, self._lines):
             if len(cache) > limit:
                 cache.clear()
+
+    @property
+    def turns_from_memory(self) -> int:
+        """Swept turns answered from the turn memory since this analyzer was made (tests, benchmarks)."""
+        return self._turns.hits
 
     # -- the whole layout ------------------------------------------------------------------
     def analyze_live(self, layout: Layout) -> LayoutResult:
@@ -209,7 +222,7 @@ class LayoutAnalyzer:
             if found is None:
                 straight = shapely.union_all([straights[line_id] for line_id in junction.line_ids])
                 found = analyze_junction(JunctionInputs(junction, context, own_widths, straight, excluded,
-                                                        own_overrides, with_margins=full))
+                                                        own_overrides, with_margins=full, turns=self._turns))
                 self._junctions[key] = found
                 recomputed += 1
             results[junction.id], problems[junction.id] = found

@@ -5,10 +5,12 @@ every track of every movement is then measured against them with whole-array num
 (:func:`signed_margins`). The distance from a point to a segment is the Euclidean distance to its
 nearest point, the segment parameter clamped to [0, 1] (identity).
 
-Measuring every point against every segment costs points x segments; instead the points (in
-track order, so neighbours are close) are grouped in blocks of :data:`BLOCK_POINTS`. A block's
-points lie within rho of one of them, its centre c, so for any segment s and point p of the block,
-d(p, s) >= d(c, s) - rho (triangle inequality). Measure every point of the block against the
+Measuring every point against every segment costs points x segments; instead the points (in track
+order, so neighbours are close) are grouped in blocks of :data:`BLOCK_POINTS`, each block within one
+track (a track's last point is repeated to fill its last block: a block spanning the end of one
+track and the start of the next would be wide, and its wide bound would keep many segments). A
+block's points lie within rho of one of them, its centre c, so for any segment s and point p of the
+block, d(p, s) >= d(c, s) - rho (triangle inequality). Measure every point of the block against the
 segment nearest the centre; the largest of those distances, U, bounds each point's own nearest
 distance, so a segment with d(c, s) > U + rho is nearest to none of them. Only the others are
 measured exactly: the result is the exact minimum, whatever the shape of the edge. Distances are
@@ -17,6 +19,7 @@ capped at :data:`MARGIN_REACH_M`: a farther edge means, to a planner, no edge ne
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -27,7 +30,7 @@ from shapely.geometry.base import BaseGeometry
 FloatArray = npt.NDArray[np.float64]
 
 MARGIN_REACH_M = 60.0    # pavement edges farther than this from a track do not set its margin
-BLOCK_POINTS = 12        # consecutive points sharing one choice of candidate segments
+BLOCK_POINTS = 16        # consecutive points sharing one choice of candidate segments
 PAIRS_PER_CHUNK = 16384  # block-segment pairs measured at once: bounds the temporary arrays
 SLACK_M = 1e-9           # rounding allowance when discarding a segment
 # Above this many segments GEOS's tree search wins (measured: 800 points against a 3,000-segment ring,
@@ -123,23 +126,34 @@ def _tree_distances_m(points: FloatArray, segments: EdgeSegments) -> FloatArray:
     return found
 
 
-def edge_distances_m(points: FloatArray, segments: EdgeSegments) -> FloatArray:
-    """Distance from each point to the nearest segment, capped at :data:`MARGIN_REACH_M`."""
+def edge_distances_m(points: FloatArray, segments: EdgeSegments,
+                     track_lengths: Sequence[int] | None = None) -> FloatArray:
+    """Distance from each point to the nearest segment, capped at :data:`MARGIN_REACH_M`.
+
+    ``track_lengths``: the points are that many consecutive tracks (default: one track); a block of
+    points never spans two tracks (see the module notes)."""
     count = len(points)
     if count == 0 or segments.count == 0:
         return np.full(count, MARGIN_REACH_M)
     if segments.count > TREE_ABOVE_SEGMENTS:
         return np.minimum(_tree_distances_m(points, segments), MARGIN_REACH_M)
-    padded = np.concatenate((points, np.repeat(points[-1:], -count % BLOCK_POINTS, axis=0)))
+    lengths = np.asarray(track_lengths if track_lengths is not None else [count], dtype=np.int64)
+    lengths = lengths[lengths > 0]
+    # Each point once, and a track's last point again until its track fills whole blocks.
+    copies = np.ones(count, dtype=np.int64)
+    copies[np.cumsum(lengths) - 1] += -lengths % BLOCK_POINTS
+    padded = points[np.repeat(np.arange(count), copies)]
     rows = BLOCK_POINTS * max(1, PAIRS_PER_CHUNK // segments.count)
     distance = np.concatenate([_block_distances(padded[first:first + rows], segments)
                                for first in range(0, len(padded), rows)])
-    capped: FloatArray = np.minimum(distance[:count], MARGIN_REACH_M)
+    capped: FloatArray = np.minimum(distance[np.cumsum(copies) - copies], MARGIN_REACH_M)
     return capped
 
 
-def signed_margins(points: FloatArray, pavement: BaseGeometry, segments: EdgeSegments) -> FloatArray:
-    """Distance from each point to the pavement edge: positive inside ``pavement``, negative outside."""
-    distance = edge_distances_m(points, segments)
+def signed_margins(points: FloatArray, pavement: BaseGeometry, segments: EdgeSegments,
+                   track_lengths: Sequence[int] | None = None) -> FloatArray:
+    """Distance from each point to the pavement edge: positive inside ``pavement``, negative outside.
+    ``track_lengths`` as for :func:`edge_distances_m`."""
+    distance = edge_distances_m(points, segments, track_lengths)
     inside = shapely.contains_xy(pavement, points[:, 0], points[:, 1])
     return np.where(inside, distance, -distance)

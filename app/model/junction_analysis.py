@@ -7,7 +7,7 @@ from __future__ import annotations
 
 import math
 from collections import defaultdict
-from collections.abc import Sequence
+from collections.abc import Hashable, Sequence
 from dataclasses import dataclass, fields, replace
 from typing import Any
 
@@ -20,6 +20,7 @@ from app.model.design_context import DesignContext, default_radius_m, edge_margi
 from app.model.edge_margins import EdgeSegments, edge_segments
 from app.model.junction_tracks import junction_tracks
 from app.model.results import AircraftTracks, ArcRecord, FilletResult, JunctionResult, MovementResult
+from app.model.turn_memory import TurnMemory, turn_key
 from geometry.errors import GeometryError
 from geometry.fillets import fit_fillet
 from geometry.movements import Movement, corner_of, junction_movements
@@ -36,6 +37,19 @@ WELD_M = 1e-6
 
 
 @dataclass(frozen=True, slots=True, eq=False)
+class SweptTurn:
+    """One turn of a junction: its radius and arc, swept paths and required area (or the problem met)."""
+
+    movement: Movement
+    corner_key: str | None          # the one corner the turn sweeps; None when it crosses a leg
+    radius_m: float | None
+    arc: Arc | None
+    swept: tuple[SweptPath, ...]
+    area: BaseGeometry | None
+    problem: str | None
+
+
+@dataclass(frozen=True, slots=True, eq=False)
 class JunctionInputs:
     """Everything one junction's result depends on (the cache key is built from it)."""
 
@@ -46,17 +60,7 @@ class JunctionInputs:
     excluded: frozenset[str]
     overrides_m: tuple[tuple[str, float], ...]       # corner key -> radius
     with_margins: bool = True                        # False for the live pass of a drag preview
-
-
-@dataclass(frozen=True, slots=True, eq=False)
-class _Computed:
-    movement: Movement
-    corner_key: str | None          # the one corner the turn sweeps; None when it crosses a leg
-    radius_m: float | None
-    arc: Arc | None
-    swept: tuple[SweptPath, ...]
-    area: BaseGeometry | None
-    problem: str | None
+    turns: TurnMemory[SweptTurn] | None = None       # swept turns of earlier junctions, by their inputs
 
 
 def _arc_record(arc: Arc) -> ArcRecord:
@@ -100,10 +104,9 @@ def _radius_for(movement: Movement, corner_key: str | None, inputs: JunctionInpu
     return default_radius_m(movement.turn_rad, inputs.context)
 
 
-def _compute_turn(movement: Movement, inputs: JunctionInputs) -> _Computed:
+def _compute_turn(movement: Movement, inputs: JunctionInputs, corner_key: str | None,
+                  radius_m: float) -> SweptTurn:
     junction = inputs.junction
-    corner_key = _single_corner(movement, junction)
-    radius_m = _radius_for(movement, corner_key, inputs)
     try:
         arc = turn_arc(junction.point, movement.arrival_heading_rad, movement.departure_heading_rad, radius_m)
         cmg_m = max(aircraft.cmg_m for aircraft in inputs.context.fleet)
@@ -112,19 +115,43 @@ def _compute_turn(movement: Movement, inputs: JunctionInputs) -> _Computed:
         path = movement_path(movement, junction.point, radius_m, lead_in, lead_out)
         swept = tuple(_once_gear_is_on_path(sweep(path, aircraft)) for aircraft in inputs.context.fleet)
     except GeometryError as error:
-        return _Computed(movement, corner_key, radius_m, None, (), None, str(error))
-    return _Computed(movement, corner_key, radius_m, arc.arc, swept, None, None)
+        return SweptTurn(movement, corner_key, radius_m, None, (), None, str(error))
+    return SweptTurn(movement, corner_key, radius_m, arc.arc, swept, None, None)
+
+
+def _swept_turns(turns: Sequence[Movement], inputs: JunctionInputs) -> list[SweptTurn]:
+    """Every turn swept with its required area; turns remembered in ``inputs.turns`` (equal
+    inputs, see app/model/turn_memory.py) are taken from there, the others computed together."""
+    memory, context = inputs.turns, inputs.context
+    found: list[SweptTurn | None] = []
+    missing: list[tuple[int, Hashable, SweptTurn]] = []
+    for movement in turns:
+        corner_key = _single_corner(movement, inputs.junction)
+        radius_m = _radius_for(movement, corner_key, inputs)
+        key = turn_key(movement, inputs.junction, radius_m, context.fleet, context.rule_set_name)
+        known = memory.get(key) if memory is not None else None
+        if known is not None:
+            found.append(replace(known, movement=movement, corner_key=corner_key))
+            continue
+        missing.append((len(found), key, _compute_turn(movement, inputs, corner_key, radius_m)))
+        found.append(None)
+    paved = _with_areas([one for _, _, one in missing], inputs)
+    for (index, key, _), one in zip(missing, paved, strict=True):
+        found[index] = one
+        if memory is not None:
+            memory.put(key, one)
+    return [one for one in found if one is not None]
 
 
 def _margins_m(paths: Sequence[SweptPath], rules: str) -> list[float]:
     return [edge_margin_m(path.aircraft, rules) for path in paths]
 
 
-def _paved(one: _Computed, areas: list[Polygonal]) -> _Computed:
+def _paved(one: SweptTurn, areas: list[Polygonal]) -> SweptTurn:
     return replace(one, area=areas[0] if len(areas) == 1 else shapely.union_all(areas))
 
 
-def _with_areas(computed: list[_Computed], inputs: JunctionInputs) -> list[_Computed]:
+def _with_areas(computed: list[SweptTurn], inputs: JunctionInputs) -> list[SweptTurn]:
     """The swept turns with their required areas, computed for all of them together."""
     rules = inputs.context.rule_set_name
     swept = [one for one in computed if one.problem is None]
@@ -137,17 +164,17 @@ def _with_areas(computed: list[_Computed], inputs: JunctionInputs) -> list[_Comp
     return [by_turn.get(id(one), one) for one in computed]
 
 
-def _with_own_area(one: _Computed, rules: str) -> _Computed:
+def _with_own_area(one: SweptTurn, rules: str) -> SweptTurn:
     if one.problem is not None:
         return one
     try:
         areas = required_movement_areas(one.swept, _margins_m(one.swept, rules))
     except GeometryError as error:
-        return _Computed(one.movement, one.corner_key, one.radius_m, None, (), None, str(error))
+        return SweptTurn(one.movement, one.corner_key, one.radius_m, None, (), None, str(error))
     return _paved(one, areas)
 
 
-def _fit_corner(key: str, computed: list[_Computed], required: BaseGeometry, inputs: JunctionInputs,
+def _fit_corner(key: str, computed: list[SweptTurn], required: BaseGeometry, inputs: JunctionInputs,
                 local_straights: BaseGeometry) -> tuple[FilletResult | None, str | None]:
     """The corner's fillet for ``required``, the union of its turns' required areas."""
     first = computed[0]
@@ -175,7 +202,7 @@ def _fit_corner(key: str, computed: list[_Computed], required: BaseGeometry, inp
 MARGIN_EDGE_SIMPLIFY_M = 0.001  # the pavement edge is simplified this much before measuring margins
 
 
-def _movement_result(one: _Computed, inputs: JunctionInputs,
+def _movement_result(one: SweptTurn, inputs: JunctionInputs,
                      tracks: tuple[AircraftTracks, ...]) -> MovementResult:
     movement = one.movement
     return MovementResult(
@@ -189,7 +216,7 @@ def _movement_result(one: _Computed, inputs: JunctionInputs,
         problem=one.problem, corner_key=one.corner_key)
 
 
-def _movement_results(computed: list[_Computed], inputs: JunctionInputs, pavement: BaseGeometry,
+def _movement_results(computed: list[SweptTurn], inputs: JunctionInputs, pavement: BaseGeometry,
                       segments: EdgeSegments | None) -> dict[str, MovementResult]:
     """Every computed turn's result; the tracks of all of them are measured together."""
     rules = inputs.context.rule_set_name
@@ -218,9 +245,9 @@ def analyze_junction(inputs: JunctionInputs) -> tuple[JunctionResult, tuple[str,
     junction = inputs.junction
     turns = [movement for movement in junction_movements(junction)
              if movement.kind == "turn" and movement.key not in inputs.excluded]
-    computed = _with_areas([_compute_turn(movement, inputs) for movement in turns], inputs)
+    computed = _swept_turns(turns, inputs)
     usable = [one for one in computed if one.area is not None]
-    by_corner: dict[str, list[_Computed]] = defaultdict(list)
+    by_corner: dict[str, list[SweptTurn]] = defaultdict(list)
     loose: list[BaseGeometry] = []
     for one in usable:
         if one.corner_key is not None:

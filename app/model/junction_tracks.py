@@ -41,7 +41,7 @@ def _edge_margins(edges: list[FloatArray], pavement: BaseGeometry,
     """Signed margin of every point of every tyre-edge track (NaN without ``segments``)."""
     points = np.concatenate(edges)
     signed = (np.full(len(points), np.nan) if segments is None
-              else signed_margins(points, pavement, segments))
+              else signed_margins(points, pavement, segments, [len(edge) for edge in edges]))
     return np.split(signed, np.cumsum([len(edge) for edge in edges[:-1]]))
 
 

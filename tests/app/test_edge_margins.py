@@ -89,3 +89,16 @@ def test_the_tree_search_for_large_edges_gives_the_block_distances() -> None:
     by_tree = edge_distances_m(points, segments)
     exact = np.minimum(shapely.distance(edge, shapely.points(points)), MARGIN_REACH_M)
     assert np.abs(by_tree - exact).max() < 1e-9  # identity (the same Euclidean distance)
+
+
+@FAST
+@given(st.integers(0, 10_000), st.lists(st.integers(0, 90), min_size=1, max_size=6))
+def test_tracks_measured_together_give_each_points_own_distance(seed: int, lengths: list[int]) -> None:
+    # Several tracks in one call, blocks kept within each track: every point still gets its exact distance.
+    tracks = [_track(seed + number, length) if length else np.empty((0, 2))
+              for number, length in enumerate(lengths)]
+    points = np.concatenate(tracks)
+    ring = Polygon([(-30, -30), (35, -25), (40, 30), (-5, 10), (-35, 25)]).exterior
+    together = edge_distances_m(points, edge_segments(ring), [len(track) for track in tracks])
+    assert together.shape == (len(points),)  # identity (one distance per point)
+    assert np.allclose(together, _reference_m(points, ring), rtol=0.0, atol=1e-9)  # identity (Euclidean distance)
