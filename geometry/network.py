@@ -19,8 +19,11 @@ first line of the set (e.g. ``"J:twy-1/twy-2#0"``). A leg is ``"<junction id>|<l
 junction twice, the second pass adds ``"#1"``.
 
 The network is a value: :func:`build_network` makes one, :func:`update_network` makes the next
-one after some lines changed, recomputing only the contacts of the changed lines and reusing every
-junction whose contacts and neighbours did not change.
+one after some lines changed, recomputing only the contacts on the segments that changed and
+keeping every junction whose value did not change as the very same object: along a line whose
+vertex was dragged, all but the junctions next to that vertex. A junction's distance along a line
+(its *station*, which a change anywhere before it on the line moves) is therefore not part of the
+junction: :meth:`JunctionNetwork.station_m` gives it.
 """
 
 from __future__ import annotations
@@ -31,19 +34,30 @@ from collections import defaultdict
 from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass, field
 from itertools import pairwise
+from operator import itemgetter
 from typing import Literal
 
 import shapely
 
 from geometry import centerline
 from geometry.errors import InvalidPathError, NetworkError
-from geometry.network_candidates import CANDIDATE_CHORD_TOLERANCE_M, candidates_of
-from geometry.network_sites import (
+from geometry.network_candidates import (
+    CANDIDATE_CHORD_TOLERANCE_M,
     END_TOLERANCE_M,
-    Contact,
+    CandidateIndex,
+    Candidates,
+    ChangedPieces,
     IndexedLine,
+    Position,
+    candidates_of,
+    changed_pieces,
+    index_lines,
+)
+from geometry.network_sites import (
+    Contact,
     NetworkSites,
     Pair,
+    Place,
     Site,
     SitesUpdate,
     contact_order,
@@ -58,7 +72,7 @@ LineKind = Literal["taxiway", "taxilane", "runway"]
 LINE_KINDS: tuple[LineKind, ...] = ("taxiway", "taxilane", "runway")
 DEFAULT_SNAP_TOLERANCE_M = 0.5
 
-_Neighbours = tuple[str, float, float, float]  # line id, previous, own and next station
+_Neighbours = tuple[str, Position, Position, Position]  # line id, previous, own and next place
 
 
 @dataclass(frozen=True, slots=True)
@@ -94,7 +108,11 @@ class Leg:
     length_m: along the line to the next junction or to the line's end.
     straight_length_m: of the first straight piece away from the junction, up to the first
         corner (arc or sharp) or the next junction; 0 when the line curves at the junction.
-    station_m: the junction's distance along its line. direction: +1 along the line, -1 against.
+    direction: +1 along the line, -1 against.
+
+    A leg holds nothing that depends on where along its line the junction lies (the network
+    keeps that: :meth:`JunctionNetwork.station_m`), so a junction whose surroundings did not
+    change stays the same value, and the same object, when its line changes farther away.
     """
 
     id: str
@@ -103,7 +121,6 @@ class Leg:
     heading_rad: float
     length_m: float
     straight_length_m: float
-    station_m: float
     direction: Literal[1, -1]
 
 
@@ -140,38 +157,54 @@ class JunctionNetwork:
     contacts_by_pair: Mapping[Pair, tuple[Contact, ...]]
     contacts_by_junction: Mapping[str, tuple[Contact, ...]]
     neighbours_by_junction: Mapping[str, tuple[_Neighbours, ...]]
-    # Each segment's candidate chords, by the segment's identity: an unchanged line keeps its very
+    # Each segment's candidate chords, by the segment's value: a changed line keeps most of its
     # segments, so the next update flattens only the lines that changed.
-    chords_by_segment: Mapping[int, tuple[Segment, shapely.Geometry]] = field(default_factory=dict)
+    chords_by_segment: Mapping[Segment, shapely.Geometry] = field(default_factory=dict)
     # What the next update reuses: sites, candidate trees, stations (shared, never changed).
     sites: NetworkSites | None = None
 
+    def station_m(self, leg: Leg) -> float:
+        """Where the junction of ``leg`` (a leg of one of this network's junctions) lies along the
+        leg's line: its distance from the line's start.
 
-def _leg(junction_id: str, item: IndexedLine, station_m: float, direction: Literal[1, -1],
-         limit_m: float, ordinal: int) -> Leg | None:
-    length_m = (limit_m - station_m) * direction
-    index = item.along.segment_index(station_m, direction)
-    if length_m <= END_TOLERANCE_M or index is None:
+        Kept here, not in the leg, because it moves whenever the line changes before the junction,
+        however far away. It depends only on the line and the contacts of the junction.
+        """
+        marker = f"|{leg.line_id}{'+' if leg.direction > 0 else '-'}"
+        position = leg.id.rfind(marker)
+        ordinal_text = leg.id[position + len(marker):]
+        ordinal = int(ordinal_text[1:]) if ordinal_text.startswith("#") else 0
+        site = self.sites.by_id.get(leg.id[:position]) if self.sites is not None and position > 0 else None
+        places = [at for line_id, at in site.passes if line_id == leg.line_id] if site is not None else []
+        if self.sites is None or ordinal >= len(places):
+            raise NetworkError(f"leg {leg.id} is not a leg of a junction of this network")
+        return self.sites.indexed[leg.line_id].station_m(places[ordinal])
+
+
+def _leg(junction_id: str, item: IndexedLine, at: Position, direction: Literal[1, -1],
+         limit: Position, ordinal: int) -> Leg | None:
+    length_m = item.distance_m(at, limit) if direction > 0 else item.distance_m(limit, at)
+    leaving = item.leaving(at, direction)
+    if length_m <= END_TOLERANCE_M or leaving is None:
         return None
-    heading = centerline.wrap_angle(item.along.heading_rad(index, station_m)
-                                     + (0.0 if direction > 0 else math.pi))
+    heading = centerline.wrap_angle(item.heading_rad(leaving) + (0.0 if direction > 0 else math.pi))
     line = item.line
     suffix = ("+" if direction > 0 else "-") + (f"#{ordinal}" if ordinal else "")
     return Leg(f"{junction_id}|{line.id}{suffix}", line.id, line.kind, heading, length_m,
-               item.along.straight_run_m(index, station_m, direction, limit_m), station_m, direction)
+               item.straight_run_m(leaving, direction, length_m), direction)
 
 
 def _neighbourhood(site: Site, indexed: dict[str, IndexedLine],
-                   stations_by_line: dict[str, tuple[float, ...]]) -> tuple[_Neighbours, ...]:
-    """Each pass of the site with the stations of the previous and next junctions (or the line's
-    ends) along its line: everything a junction's legs depend on besides the line itself."""
+                   places_by_line: Mapping[str, tuple[Place, ...]]) -> tuple[_Neighbours, ...]:
+    """Each pass of the site with the places of the previous and next junctions (or the line's
+    ends) along its line: with the segments between them, all a junction's legs depend on."""
     found = []
-    for line_id, station in site.passes:
-        stations = stations_by_line[line_id]
-        position = bisect_left(stations, station)
-        before = stations[position - 1] if position > 0 else 0.0
-        after = stations[position + 1] if position + 1 < len(stations) else indexed[line_id].along.length_m
-        found.append((line_id, before, station, after))
+    for line_id, at in site.passes:
+        places = places_by_line[line_id]
+        position = bisect_left(places, (at, ""))  # the first of the junctions at the same place
+        before = places[position - 1][0] if position > 0 else (0, 0.0)
+        after = places[position + 1][0] if position + 1 < len(places) else indexed[line_id].end(False)
+        found.append((line_id, before, at, after))
     return tuple(found)
 
 
@@ -179,10 +212,10 @@ def _legs(junction_id: str, neighbourhood: tuple[_Neighbours, ...],
           indexed: dict[str, IndexedLine]) -> tuple[Leg, ...]:
     legs: list[Leg] = []
     ordinals: dict[str, int] = defaultdict(int)
-    for line_id, before, station, after in neighbourhood:
-        sides: tuple[tuple[Literal[1, -1], float], ...] = ((1, after), (-1, before))
+    for line_id, before, at, after in neighbourhood:
+        sides: tuple[tuple[Literal[1, -1], Position], ...] = ((1, after), (-1, before))
         for direction, limit in sides:
-            leg = _leg(junction_id, indexed[line_id], station, direction, limit, ordinals[line_id])
+            leg = _leg(junction_id, indexed[line_id], at, direction, limit, ordinals[line_id])
             if leg is not None:
                 legs.append(leg)
         ordinals[line_id] += 1
@@ -202,82 +235,99 @@ def _kind(site: Site, legs: Sequence[Leg], indexed: dict[str, IndexedLine]) -> s
     return ("elbow", "tee", "crossing")[min(through, 2)]
 
 
-def _index_lines(lines: Sequence[NetworkLine], known: Mapping[str, IndexedLine]) -> dict[str, IndexedLine]:
-    indexed: dict[str, IndexedLine] = {}
-    for line in sorted(lines, key=lambda line: line.id):
-        if line.id in indexed:
-            raise NetworkError(f"two lines share the id {line.id}: every line needs its own id")
-        item = known.get(line.id)
-        if item is None or item.line is not line:
-            item = IndexedLine(line, centerline.SegmentStations.of(line.segments))
-        indexed[line.id] = item
-    return indexed
-
-
-def _reusable(previous: JunctionNetwork | None, previous_by_id: Mapping[str, Junction], junction_id: str,
-              site: Site, neighbourhood: tuple[_Neighbours, ...], changed: set[str]) -> Junction | None:
-    """The previous network's junction, if nothing it was built from has changed."""
+def _reusable(previous: JunctionNetwork | None, junction_id: str, site: Site,
+              neighbourhood: tuple[_Neighbours, ...], changed: ChangedPieces) -> Junction | None:
+    """The previous network's junction, if nothing it was built from has changed (then it needs
+    no building): its contacts, the places of its neighbours and the segments up to them."""
     if (previous is None or previous.contacts_by_junction.get(junction_id) != site.contacts
-            or previous.neighbours_by_junction.get(junction_id) != neighbourhood
-            or any(line_id in changed for line_id in site.line_ids)):
+            or previous.neighbours_by_junction.get(junction_id) != neighbourhood):
         return None
-    return previous_by_id.get(junction_id)
+    for line_id, before, _, after in neighbourhood:
+        pieces = changed.get(line_id, frozenset())
+        if pieces is None or any(before[0] - 1 <= piece <= after[0] + 1 for piece in pieces):
+            return None
+    return previous.sites.junctions.get(junction_id) if previous.sites is not None else None
 
 
-def _assemble(lines: Sequence[NetworkLine], snap_m: float, previous: JunctionNetwork | None,
-              changed: set[str]) -> JunctionNetwork:
-    if not math.isfinite(snap_m) or snap_m <= 0.0:
-        raise NetworkError(f"the snap tolerance must be a positive number of metres, got {snap_m!r}")
-    state = previous.sites if previous is not None else None
-    if state is None:
-        previous, changed = None, set()
-    indexed = _index_lines(lines, state.indexed if state is not None else {})
-    if state is None:
-        changed = set(indexed)
-    segments = {line_id: item.line.segments for line_id, item in indexed.items()}
-    candidates, candidate_index = candidates_of(sorted(changed), segments,
-                                                state.candidates if state is not None else None,
-                                                snap_m + CANDIDATE_CHORD_TOLERANCE_M)
-    update = SitesUpdate(state, indexed, snap_m)
-    contacts_by_pair, fresh_contacts = new_contacts(update, previous, changed, candidates)
+def _junction(junction_id: str, site: Site, neighbourhood: tuple[_Neighbours, ...],
+              indexed: dict[str, IndexedLine], previous: Junction | None) -> Junction:
+    """The junction of ``site``; ``previous`` itself when it has the very same value, as for a
+    junction on a changed line whose own stretch of the line did not change."""
+    legs = _legs(junction_id, neighbourhood, indexed)
+    junction = Junction(junction_id, site.point, legs, _kind(site, legs, indexed))
+    return previous if previous == junction else junction
+
+
+def _merge_again(update: SitesUpdate, previous: JunctionNetwork | None, changed: ChangedPieces,
+                 candidates: tuple[dict[Pair, Candidates], CandidateIndex]
+                 ) -> tuple[dict[Pair, tuple[Contact, ...]], set[str]]:
+    """The contacts of every pair, with the sites changed to match them; the junctions to look at
+    again (those of changed sites, and all on a line that changed or whose junctions moved)."""
+    contacts_by_pair, fresh_contacts, dropped = new_contacts(
+        update, previous, changed, *candidates, update.snap_m + CANDIDATE_CHORD_TOLERANCE_M)
     # Sites that lose a contact, or that a new contact comes within the snap tolerance of, merge again.
     affected: set[str] = set()
-    for line_id in changed:
-        affected.update(update.ids_by_line.get(line_id, ()))
+    for line_a, line_b in dropped:
+        affected.update(junction_id for junction_id in update.ids_by_line.get(line_a, ())
+                        if line_b in update.by_id[junction_id].line_ids)
     for contact in fresh_contacts:
         affected.update(update.near(contact))
     removed = [update.remove(junction_id) for junction_id in sorted(affected)]
     pool = [contact for site in removed for contact in site.contacts
-            if contact.line_a not in changed and contact.line_b not in changed] + fresh_contacts
-    groups = merge_groups(sorted(pool, key=contact_order), snap_m)
-    fresh = [site_of(group, indexed, snap_m) for group in groups]
-    dirty = set(update.name(fresh, removed))
-    for line_id in update.restation(changed):
-        dirty.update(update.ids_by_line.get(line_id, ()))
+            if (contact.line_a, contact.line_b) not in dropped] + fresh_contacts
+    groups = merge_groups(sorted(pool, key=contact_order), update.snap_m)
+    dirty = set(update.name([site_of(group, update.indexed, update.snap_m) for group in groups], removed))
+    return contacts_by_pair, dirty | update.restation(changed)
+
+
+def _look_again(update: SitesUpdate, previous: JunctionNetwork | None, dirty: set[str],
+                changed: ChangedPieces
+                ) -> tuple[dict[str, tuple[Contact, ...]], dict[str, tuple[_Neighbours, ...]], set[str]]:
+    """Puts the junctions of ``dirty`` into ``update``: the previous objects where nothing they
+    depend on changed or their value is the same, else new ones (the third value names them)."""
     contacts_by_junction = dict(previous.contacts_by_junction) if previous is not None else {}
     neighbours_by_junction = dict(previous.neighbours_by_junction) if previous is not None else {}
     for junction_id in update.gone - update.by_id.keys():
         contacts_by_junction.pop(junction_id, None)
         neighbours_by_junction.pop(junction_id, None)
-    previous_junctions = state.junctions if state is not None else {}
+    previous_junctions = previous.sites.junctions if previous is not None and previous.sites else {}
     recomputed: set[str] = set()
     for junction_id in sorted(dirty):
         site = update.by_id[junction_id]
-        neighbourhood = _neighbourhood(site, indexed, update.stations)
-        junction = _reusable(previous, previous_junctions, junction_id, site, neighbourhood, changed)
+        neighbourhood = _neighbourhood(site, update.indexed, update.places)
+        junction = _reusable(previous, junction_id, site, neighbourhood, changed)
         if junction is None:
-            legs = _legs(junction_id, neighbourhood, indexed)
-            junction = Junction(junction_id, site.point, legs, _kind(site, legs, indexed))
-            recomputed.add(junction_id)
+            before = previous_junctions.get(junction_id)
+            junction = _junction(junction_id, site, neighbourhood, update.indexed, before)
+            if junction is not before:
+                recomputed.add(junction_id)
         update.junctions[junction_id] = junction
         contacts_by_junction[junction_id] = site.contacts
         neighbours_by_junction[junction_id] = neighbourhood
-    sites = NetworkSites(indexed, candidate_index, update.by_id, update.ids_by_line, update.cells,
-                         update.stations, tuple(update.order), update.pairs_by_line, update.junctions)
+    return contacts_by_junction, neighbours_by_junction, recomputed
+
+
+def _assemble(lines: Sequence[NetworkLine], snap_m: float, previous: JunctionNetwork | None,
+              changed_ids: set[str]) -> JunctionNetwork:
+    if not math.isfinite(snap_m) or snap_m <= 0.0:
+        raise NetworkError(f"the snap tolerance must be a positive number of metres, got {snap_m!r}")
+    state = previous.sites if previous is not None else None
+    previous = previous if state is not None else None
+    indexed = index_lines(lines, state.indexed if state is not None else {})
+    changed = changed_pieces(state.indexed if state is not None else {}, indexed,
+                             changed_ids if state is not None else set(indexed), snap_m)
+    segments = {line_id: item.line.segments for line_id, item in indexed.items()}
+    candidates = candidates_of(changed, segments, state.candidates if state is not None else None,
+                               snap_m + CANDIDATE_CHORD_TOLERANCE_M)
+    update = SitesUpdate(state, indexed, snap_m)
+    contacts_by_pair, dirty = _merge_again(update, previous, changed, candidates)
+    contacts_by_junction, neighbours_by_junction, recomputed = _look_again(update, previous, dirty, changed)
+    sites = NetworkSites(indexed, candidates[1], update.by_id, update.ids_by_line, update.cells,
+                         update.places, tuple(update.order), update.pairs_by_line, update.junctions)
     return JunctionNetwork(tuple(item.line for item in indexed.values()), snap_m,
-                           tuple(update.junctions[junction_id] for _, junction_id in update.order),
+                           tuple(map(update.junctions.__getitem__, map(itemgetter(1), update.order))),
                            frozenset(recomputed), contacts_by_pair, contacts_by_junction,
-                           neighbours_by_junction, candidate_index.chords, sites)
+                           neighbours_by_junction, candidates[1].chords, sites)
 
 
 def build_network(lines: Sequence[NetworkLine],
@@ -290,9 +340,11 @@ def update_network(previous: JunctionNetwork, lines: Sequence[NetworkLine],
                    changed_ids: Iterable[str] = ()) -> JunctionNetwork:
     """The network after some lines were moved, added or removed.
 
-    Only contacts of changed lines are recomputed; a junction is rebuilt only if its contacts or
-    the junction stations along one of its lines changed, else the previous object is kept. The
-    result equals :func:`build_network` on the same lines. ``changed_ids`` may name lines the
+    Only contacts on the changed segments of changed lines are recomputed; a junction is looked at
+    again only if its contacts, its neighbours along one of its lines or the segments up to them
+    changed, and the previous object is kept whenever the junction has the same value
+    (``recomputed_ids`` names the others). The result equals :func:`build_network` on the same
+    lines. ``changed_ids`` may name lines the
     caller knows to have changed; lines whose value differs from ``previous`` are found anyway.
     """
     before = {line.id: line for line in previous.lines}

@@ -232,8 +232,11 @@ class CrossoverFinder:
                    for leg in junction.legs if leg.line_id == line_id]
         if len(entries) != 2 or entries[0][0].id == entries[1][0].id:
             return None
+        # Leaving one junction along the line and the other against it, the first lies before the
+        # second along the line: had it lain after, the second would have a leg along the line too
+        # (towards it), and the line three legs. So ordering by direction is ordering by station.
         (start, start_leg), (end, end_leg) = sorted(
-            entries, key=lambda entry: (entry[1].station_m, entry[0].id, entry[1].id))
+            entries, key=lambda entry: (-entry[1].direction, entry[0].id, entry[1].id))
         if start_leg.direction != 1 or end_leg.direction != -1 or start_leg.line_kind == "runway":
             return None
         return _crossover((start, end), line_id, excluded)

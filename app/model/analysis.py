@@ -124,8 +124,8 @@ class LayoutAnalyzer:
         memo_key = (id(junction), context, overrides)
         found = self._key_memo.get(memo_key)
         if found is None or found[0] is not junction:
-            # The length cap depends on the legs' headings and kinds only: a junction rebuilt with the
-            # same legs (all those along a dragged line) reuses it.
+            # The length cap depends on the legs' headings and kinds only: junctions of the same shape
+            # (a grid's crossings, or one rebuilt after an undo) share it.
             shape = (tuple((leg.heading_rad, leg.line_kind) for leg in junction.legs), context, overrides)
             cap_m = self._cap_memo.get(shape)
             if cap_m is None:

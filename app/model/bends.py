@@ -71,9 +71,9 @@ def _candidates(line: Centerline) -> list[tuple[tuple[float, float], Bend | Reve
             continue
         junction_id = f"B:{line.id}#{index}"
         back = Leg(f"{junction_id}|{line.id}-", line.id, line.kind, wrap_angle(headings[k - 1] + math.pi),
-                   lengths[k - 1], max(0.0, lengths[k - 1] - tangents[k - 1]), 0.0, -1)
+                   lengths[k - 1], max(0.0, lengths[k - 1] - tangents[k - 1]), -1)
         ahead = Leg(f"{junction_id}|{line.id}+", line.id, line.kind, headings[k],
-                    lengths[k], max(0.0, lengths[k] - tangents[k + 1]), 0.0, 1)
+                    lengths[k], max(0.0, lengths[k] - tangents[k + 1]), 1)
         junction = Junction(junction_id, xy, (back, ahead), "bend")
         (corner,) = junction_corners(junction)
         found.append((xy, Bend(junction, radius if radius else None, corner.key)))

@@ -26,7 +26,7 @@ import numpy as np
 import numpy.typing as npt
 import shapely
 
-from geometry.centerline import flatten
+from geometry.centerline import closest_point_on_segment, flatten
 from geometry.checks.common import CENTERLINE_CHORD_TOLERANCE_M, LENGTH_TOLERANCE_M
 from geometry.network import Junction, NetworkLine
 from geometry.primitives import FloatArray, Point
@@ -114,19 +114,38 @@ def pieces_near(pieces: Pieces, bounds: tuple[float, float, float, float], reach
 def segments_at_junctions(lines: Sequence[NetworkLine], junctions: Sequence[Junction]
                           ) -> set[tuple[SegmentKey, SegmentKey]]:
     """Pairs of segments (of two different lines) that both reach a junction of those lines."""
+    by_id = {line.id: line for line in lines}
     bounds = {line.id: _segment_bounds(line) for line in lines}
     excluded: set[tuple[SegmentKey, SegmentKey]] = set()
     for junction in junctions:
-        touching: dict[str, set[int]] = defaultdict(set)
-        for leg in junction.legs:
-            for index, (first_m, last_m) in enumerate(bounds.get(leg.line_id, ())):
-                if first_m - JUNCTION_REACH_M <= leg.station_m <= last_m + JUNCTION_REACH_M:
-                    touching[leg.line_id].add(index)
+        touching: dict[str, set[int]] = {}
+        for line_id in {leg.line_id for leg in junction.legs}:
+            if line_id in by_id:
+                stations = _stations_near(by_id[line_id], bounds[line_id], junction.point)
+                touching[line_id] = {index for station_m in stations
+                                     for index, (first_m, last_m) in enumerate(bounds[line_id])
+                                     if first_m - JUNCTION_REACH_M <= station_m <= last_m + JUNCTION_REACH_M}
         for line_a, indices_a in touching.items():
             for line_b, indices_b in touching.items():
                 if line_a != line_b:
                     excluded.update(((line_a, a), (line_b, b)) for a in indices_a for b in indices_b)
     return excluded
+
+
+def _stations_near(line: NetworkLine, bounds: list[tuple[float, float]], point: Point) -> list[float]:
+    """Where along ``line`` it passes within :data:`JUNCTION_REACH_M` of ``point`` (a junction's
+    point): the station of the nearest point of each segment that comes that close. The junction's
+    own station along the line is among them (the line passes through its junction, or within the
+    snap tolerance of it); a line passing the junction twice gives both."""
+    found = []
+    for segment, (first_m, _) in zip(line.segments, bounds, strict=True):
+        if (math.dist(segment.start, point) > segment.length_m + JUNCTION_REACH_M
+                and math.dist(segment.end, point) > segment.length_m + JUNCTION_REACH_M):
+            continue  # too far for any of its points to come within reach
+        local_m, _, distance_m = closest_point_on_segment(segment, point)
+        if distance_m <= JUNCTION_REACH_M:
+            found.append(first_m + local_m)
+    return found
 
 
 def _segment_bounds(line: NetworkLine) -> list[tuple[float, float]]:

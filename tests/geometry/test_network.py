@@ -33,12 +33,14 @@ def headings_deg(junction: Junction) -> dict[str, float]:
 
 
 def test_two_lines_crossing_make_one_crossing_with_four_legs() -> None:
-    (junction,) = find_junctions([line("twy-1", [(0, 0), (200, 0)]), line("twy-2", [(100, -50), (100, 150)])])
+    network = build_network([line("twy-1", [(0, 0), (200, 0)]), line("twy-2", [(100, -50), (100, 150)])])
+    (junction,) = network.junctions
     assert junction.id == "J:twy-1/twy-2#0" and junction.kind == "crossing"
     assert junction.point == pytest.approx((100.0, 0.0))  # identity
     # identity: legs point east, west, north and south
     assert headings_deg(junction) == {"twy-1+": 0.0, "twy-1-": 180.0, "twy-2+": 90.0, "twy-2-": -90.0}
-    lengths = {leg.id.split("|")[1]: (leg.length_m, leg.station_m, leg.direction) for leg in junction.legs}
+    lengths = {leg.id.split("|")[1]: (leg.length_m, network.station_m(leg), leg.direction)
+               for leg in junction.legs}
     assert lengths == {"twy-1+": (100.0, 100.0, 1), "twy-1-": (100.0, 100.0, -1),
                        "twy-2+": (150.0, 50.0, 1), "twy-2-": (50.0, 50.0, -1)}  # identity
 
@@ -160,6 +162,34 @@ def test_moving_one_line_rebuilds_only_the_junctions_it_touches() -> None:
     assert {j.id for j in junctions_touching(updated, ["h2"])} == {f"J:h2/v{i}#0" for i in range(5)}
 
 
+def test_dragging_a_vertex_keeps_the_junctions_farther_along_its_line() -> None:
+    # An east-west line with a vertex at each of seven crossings; its middle vertex is dragged north
+    # along the middle crossing line, as in the benchmark drag (tests/benchmarks/layouts.py).
+    xs = [100.0 * (number + 1) for number in range(7)]
+
+    def east_west(middle_y: float) -> NetworkLine:
+        vertices = [(x, middle_y if number == 3 else 0.0) for number, x in enumerate(xs)]
+        return line("ew", [(0.0, 0.0), *vertices, (800.0, 0.0)])
+
+    crossing = [line(f"v{number}", [(x, -100.0), (x, 100.0)]) for number, x in enumerate(xs)]
+    network = build_network([east_west(0.0), *crossing])
+    for middle_y in (0.3, 0.6, 0.9):
+        lines = [east_west(middle_y), *crossing]
+        updated = update_network(network, lines)
+        assert updated.junctions == build_network(lines).junctions  # identity: an update is a build
+        # invariant: only the dragged junction and its neighbours along the line change
+        assert updated.recomputed_ids == {"J:ew/v2#0", "J:ew/v3#0", "J:ew/v4#0"}
+        before = {junction.id: junction for junction in network.junctions}
+        for number in (0, 1, 5, 6):
+            junction_id = f"J:ew/v{number}#0"
+            kept = next(junction for junction in updated.junctions if junction.id == junction_id)
+            assert kept is before[junction_id]  # invariant: two or more crossings away, the same object
+        far = before["J:ew/v6#0"].leg("J:ew/v6#0|ew+")
+        # invariant: its station along the line moved (the line grew), which the network keeps
+        assert updated.station_m(far) > network.station_m(far)
+        network = updated
+
+
 def test_update_notices_added_and_removed_lines() -> None:
     lines = grid(3)
     network = build_network(lines)
@@ -224,10 +254,11 @@ def test_an_end_near_the_joint_of_two_pieces_snaps_to_the_nearer_piece() -> None
     # straight is within the 0.5 m snap tolerance.
     through = line("a", [(0, 0), (300, 0), (300, 300)], [None, 50.0, None])
     branch = line("b", [(249.7, -100.0), (249.7, -0.45)])
-    (junction,) = find_junctions([through, branch], snap_tolerance_m=0.5)
+    network = build_network([through, branch], snap_tolerance_m=0.5)
+    (junction,) = network.junctions
     assert junction.kind == "tee" and junction.point == pytest.approx((249.7, 0.0))  # identity
     ahead = junction.leg(f"{junction.id}|a+")
-    assert ahead.station_m == pytest.approx(249.7)  # identity
+    assert network.station_m(ahead) == pytest.approx(249.7)  # identity
     assert ahead.straight_length_m == pytest.approx(0.3)  # identity: up to the arc at 250 m
 
 
