@@ -68,9 +68,19 @@ def track_geometry(xy: FloatArray) -> BaseGeometry | None:
     return shapely.linestrings(points)
 
 
+_last_centerline: list[tuple[object, BaseGeometry]] = []  # the last one made, by its segments
+
+
 def centerline_geometry(line: NetworkLine) -> BaseGeometry:
-    """The exact centerline flattened to a polyline within :data:`CENTERLINE_CHORD_TOLERANCE_M`."""
-    return shapely.linestrings(flatten(line.segments, CENTERLINE_CHORD_TOLERANCE_M))
+    """The exact centerline flattened to a polyline within :data:`CENTERLINE_CHORD_TOLERANCE_M`.
+
+    The last one made is remembered by the identity of the (immutable) segments: a run of the
+    checks asks for the centerline of the line that changed more than once."""
+    if _last_centerline and _last_centerline[0][0] is line.segments:
+        return _last_centerline[0][1]
+    geometry = shapely.linestrings(flatten(line.segments, CENTERLINE_CHORD_TOLERANCE_M))
+    _last_centerline[:] = [(line.segments, geometry)]
+    return geometry
 
 
 def nearest_midpoint(a: BaseGeometry, b: BaseGeometry) -> Point:
@@ -92,19 +102,28 @@ class CheckContext:
 
     inputs: CheckInputs
     lines: dict[str, LineInfo] = field(init=False)
-    junctions: dict[str, Junction] = field(init=False)
-    movements: dict[str, MovementInfo] = field(init=False)
     skipped: dict[tuple[str, str], Finding] = field(init=False, default_factory=dict)
     # Centerline polylines by the identity of a line's segments, for a caller that keeps them
     # between runs (an unchanged line keeps its very segments).
     centerlines: dict[int, tuple[object, BaseGeometry]] = field(default_factory=dict)
+    # The junctions by id, for a caller that keeps them up to date between runs; None: built here.
+    junction_map: dict[str, Junction] | None = None
+    junctions: dict[str, Junction] = field(init=False)
+    _movements: dict[str, MovementInfo] | None = field(init=False, default=None)
     _geometries: dict[str, BaseGeometry] = field(init=False, default_factory=dict)
     _legs: dict[str, dict[str, tuple[Leg, Leg]]] = field(init=False, default_factory=dict)
 
     def __post_init__(self) -> None:
         self.lines = {info.line.id: info for info in self.inputs.lines}
-        self.junctions = {junction.id: junction for junction in self.inputs.junctions}
-        self.movements = {movement.key: movement for movement in self.inputs.movements}
+        self.junctions = self.junction_map if self.junction_map is not None else {
+            junction.id: junction for junction in self.inputs.junctions}
+
+    @property
+    def movements(self) -> dict[str, MovementInfo]:
+        """The movements by key (built on first use: few checks look movements up)."""
+        if self._movements is None:
+            self._movements = {movement.key: movement for movement in self.inputs.movements}
+        return self._movements
 
     def offered_movements(self) -> tuple[MovementInfo, ...]:
         """The movements the planner has not excluded."""

@@ -39,11 +39,17 @@ def overlap_candidates(geometries: list[BaseGeometry]) -> list[tuple[int, int]]:
             if first < second]
 
 
-def overlap_findings(a: LineInfo, b: LineInfo, geometry_a: BaseGeometry,
-                     geometry_b: BaseGeometry) -> list[Finding]:
-    """E-OVERLAP for one pair of lines (their centerlines as polylines)."""
-    near_second = geometry_b.buffer(OVERLAP_DISTANCE_M, cap_style="flat")
-    shared = geometry_a.intersection(near_second)
+def shared_stretch(geometry_a: BaseGeometry, geometry_b: BaseGeometry) -> BaseGeometry:
+    """The part of the first centerline within OVERLAP_DISTANCE_M of the second."""
+    return geometry_a.intersection(geometry_b.buffer(OVERLAP_DISTANCE_M, cap_style="flat"))
+
+
+def overlap_findings(a: LineInfo, b: LineInfo, geometry_a: BaseGeometry, geometry_b: BaseGeometry,
+                     shared: BaseGeometry | None = None) -> list[Finding]:
+    """E-OVERLAP for one pair of lines (their centerlines as polylines; ``shared``: their
+    :func:`shared_stretch` when the caller has it)."""
+    if shared is None:
+        shared = shared_stretch(geometry_a, geometry_b)
     if shared.is_empty or shared.length <= OVERLAP_LENGTH_M:
         return []
     where = shared.interpolate(0.5, normalized=True)

@@ -115,14 +115,25 @@ class _PairRules:
 def separation_reach_m(context: CheckContext) -> float:
     """The largest line-to-line separation any pair of these lines can need."""
     reach = 0.0
-    for info in context.inputs.lines:
+    for aircraft in dict.fromkeys(info.design_aircraft for info in context.inputs.lines):
         for kind in _REACH_KINDS:
             try:
-                value = context.inputs.rule_set.separation(kind, info.design_aircraft).value_m
+                value = context.inputs.rule_set.separation(kind, aircraft).value_m
             except GeometryError:
                 continue
             reach = max(reach, value)
     return reach + 1.0
+
+
+def pair_rule_found(context: CheckContext, info_a: LineInfo, info_b: LineInfo) -> bool:
+    """Whether the separation rule of two lines (if any applies) can be looked up without a
+    ``W-CHECK-SKIPPED`` (nothing is noted either way)."""
+    saved, context.skipped = context.skipped, {}
+    try:
+        _PairRules(context).get(info_a.line.id, info_b.line.id)
+        return not context.skipped
+    finally:
+        context.skipped = saved
 
 
 def check_line_separations(context: CheckContext) -> list[Finding]:

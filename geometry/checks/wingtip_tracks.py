@@ -163,14 +163,68 @@ def _clipped(left: FloatArray, right: FloatArray, keep: KeepRule) -> tuple[Float
     return np.vstack(lefts), np.vstack(rights)
 
 
-def track_box(track: TrackInfo, margin_m: float) -> BaseGeometry | None:
-    """The bounding box of both wingtip tracks grown by ``margin_m``: a cheap first filter."""
-    points = np.vstack([np.asarray(xy, dtype=float).reshape(-1, 2)
-                        for xy in (track.wingtip_left_xy, track.wingtip_right_xy)])
+def track_bounds(track: TrackInfo) -> tuple[float, float, float, float] | None:
+    """The bounds (x min, y min, x max, y max) of the finite points of both wingtip tracks."""
+    points = np.concatenate([np.asarray(xy, dtype=float).reshape(-1, 2)
+                             for xy in (track.wingtip_left_xy, track.wingtip_right_xy)])
+    if len(points):
+        # A NaN or an infinity shows in the least or the greatest coordinate: all finite, no filter.
+        bounds = (*points.min(axis=0).tolist(), *points.max(axis=0).tolist())
+        if all(math.isfinite(value) for value in bounds):
+            return (bounds[0], bounds[1], bounds[2], bounds[3])
     points = points[np.isfinite(points).all(axis=1)]
-    if len(points) == 0 or not math.isfinite(margin_m):
+    if len(points) == 0:
         return None
     (low_x, low_y), (high_x, high_y) = points.min(axis=0), points.max(axis=0)
+    return (float(low_x), float(low_y), float(high_x), float(high_y))
+
+
+class TrackBounds:
+    """:func:`track_bounds` remembered by the identity of the track (an unchanged movement keeps
+    its very tracks), for a caller that keeps one between runs."""
+
+    def __init__(self) -> None:
+        self._known: dict[int, tuple[TrackInfo, tuple[float, float, float, float] | None]] = {}
+
+    def __call__(self, track: TrackInfo) -> tuple[float, float, float, float] | None:
+        known = self._known.get(id(track))
+        if known is None or known[0] is not track:
+            known = self._known[id(track)] = (track, track_bounds(track))
+        return known[1]
+
+    def prepare(self, tracks: list[TrackInfo]) -> None:
+        """Work out the bounds of the tracks not known yet together: a few array operations for
+        all of them rather than a few for each (the same values: a least or greatest coordinate
+        is exact however it is reached)."""
+        new = [track for track in tracks
+               if (known := self._known.get(id(track))) is None or known[0] is not track]
+        arrays = [np.asarray(xy, dtype=float).reshape(-1, 2)
+                  for track in new for xy in (track.wingtip_left_xy, track.wingtip_right_xy)]
+        counts = [len(left) + len(right) for left, right in zip(arrays[::2], arrays[1::2], strict=True)]
+        if len(new) < 2 or not all(counts):
+            return
+        points = np.concatenate(arrays)
+        starts = np.concatenate(([0], np.cumsum(counts)[:-1]))
+        lows = np.minimum.reduceat(points, starts).tolist()
+        highs = np.maximum.reduceat(points, starts).tolist()
+        for track, low, high in zip(new, lows, highs, strict=True):
+            bounds = (low[0], low[1], high[0], high[1])
+            if all(math.isfinite(value) for value in bounds):
+                self._known[id(track)] = (track, bounds)
+
+    def forget_beyond(self, count: int) -> None:
+        if len(self._known) > count:
+            self._known.clear()
+
+
+def track_box(track: TrackInfo, margin_m: float,
+              bounds_of: Callable[[TrackInfo], tuple[float, float, float, float] | None] = track_bounds
+              ) -> BaseGeometry | None:
+    """The bounding box of both wingtip tracks grown by ``margin_m``: a cheap first filter."""
+    bounds = bounds_of(track)
+    if bounds is None or not math.isfinite(margin_m):
+        return None
+    low_x, low_y, high_x, high_y = bounds
     return shapely.box(low_x - margin_m, low_y - margin_m, high_x + margin_m, high_y + margin_m)
 
 

@@ -37,7 +37,7 @@ from geometry.checks.common import (
     usable_objects,
 )
 from geometry.checks.inputs import LineInfo, MovementInfo, ObjectInfo, TrackInfo
-from geometry.checks.wingtip_tracks import WingtipTrack, movement_wingtips, track_box
+from geometry.checks.wingtip_tracks import TrackBounds, WingtipTrack, movement_wingtips, track_box
 from geometry.errors import GeometryError
 from geometry.findings import Finding, Severity
 from geometry.network import Junction
@@ -120,7 +120,7 @@ def _junctions_by_line(junctions: Iterable[Junction]) -> dict[str, list[Junction
     return found
 
 
-def _crossing_angle_rad(junction: Junction, line_a: str, line_b: str) -> float:
+def crossing_angle_rad(junction: Junction, line_a: str, line_b: str) -> float:
     """Smallest acute angle between the legs of two lines at a junction."""
     angles = [min(abs(wrap_angle(a.heading_rad - b.heading_rad)),
                   math.pi - abs(wrap_angle(a.heading_rad - b.heading_rad)))
@@ -178,7 +178,7 @@ class _TaxiwayClearances:
             discs = []
             for junction in self.by_line.get(other_id, []):
                 for line_id in sorted(set(movement.line_ids) & set(junction.line_ids)):
-                    angle = max(_crossing_angle_rad(junction, other_id, line_id), SHALLOWEST_CROSSING_RAD)
+                    angle = max(crossing_angle_rad(junction, other_id, line_id), SHALLOWEST_CROSSING_RAD)
                     discs.append(shapely.buffer(shapely.points(junction.point), reach_m / math.sin(angle)))
             centerline = self.context.geometry(other_id)
             if discs:
@@ -192,7 +192,7 @@ def body_reach_m(aircraft: DesignAircraft) -> float:
     return math.hypot(aircraft.wingspan_m / 2.0, aircraft.cmg_m - aircraft.wingtip_x_m)
 
 
-def _query_reach_m(context: CheckContext, others: list[LineInfo],
+def query_reach_m(context: CheckContext, others: list[LineInfo],
                    track_aircraft: Iterable[DesignAircraft] | None = None) -> float:
     """An upper bound of every required tip-to-centerline distance: the largest half span plus
     the largest taxiway wingtip clearance (taxilane clearances are smaller)."""
@@ -220,30 +220,36 @@ class TaxiwayScene:
     tree: shapely.STRtree
     reach_m: float
     by_line: Mapping[str, Sequence[Junction]]
+    track_bounds: TrackBounds = field(default_factory=TrackBounds)
 
 
 @dataclass(frozen=True, slots=True, eq=False)
 class TaxiwayOutcome:
-    """The findings of some movements, the other lines they were checked against (any change to
-    those lines or their junctions can change the findings) and the bounds (x min, y min, x max,
-    y max) of their query boxes (a line moved into them can add findings); None: no finite track."""
+    """The findings of some movements, the other lines within the query reach of their wingtips
+    (the findings read those lines' junctions, a change to them can change the findings) and the
+    bounds (x min, y min, x max, y max) of their query boxes (a line changed inside them can change
+    the findings; none outside can); None: no finite track."""
 
     findings: tuple[Finding, ...]
-    checked_line_ids: frozenset[str]
+    reached_line_ids: frozenset[str]
     bounds: tuple[float, float, float, float] | None
 
 
 def taxiway_scene(context: CheckContext, by_line: Mapping[str, Sequence[Junction]] | None = None,
-                  track_aircraft: Iterable[DesignAircraft] | None = None) -> TaxiwayScene | None:
+                  track_aircraft: Iterable[DesignAircraft] | None = None,
+                  track_bounds: TrackBounds | None = None, reach_m: float | None = None
+                  ) -> TaxiwayScene | None:
     """The shared part of E-WINGTIP-TAXIWAY; None when there is no taxiway or taxilane.
-    ``by_line`` and ``track_aircraft`` (every aircraft with a track) when the caller knows them."""
+    ``by_line``, ``track_aircraft`` (every aircraft with a track), the bounds of the tracks and
+    the query reach (:func:`query_reach_m`) when the caller knows them."""
     others = tuple(info for info in context.inputs.lines if info.line.kind != "runway")
     if not others:
         return None
     tree = shapely.STRtree([context.geometry(info.line.id) for info in others])
     junctions = by_line if by_line is not None else _junctions_by_line(context.inputs.junctions)
-    reach_m = _query_reach_m(context, list(others), track_aircraft)
-    return TaxiwayScene(context, others, tree, reach_m, junctions)
+    if reach_m is None:
+        reach_m = query_reach_m(context, list(others), track_aircraft)
+    return TaxiwayScene(context, others, tree, reach_m, junctions, track_bounds or TrackBounds())
 
 
 def check_wingtip_taxiways(context: CheckContext) -> list[Finding]:
@@ -259,31 +265,59 @@ def taxiway_wingtip_findings(scene: TaxiwayScene, movements: Iterable[MovementIn
     context, others, tree = scene.context, scene.others, scene.tree
     clearances = _TaxiwayClearances(context, scene.by_line)
     findings: list[Finding] = []
-    checked: set[str] = set()
-    boxes: list[tuple[float, float, float, float]] = []
-    for movement in movements:
-        junction = context.junctions.get(movement.junction_id)
-        left_out = set(movement.line_ids) | set(junction.line_ids if junction is not None else ())
-        for track in movement.tracks:
-            box = track_box(track, scene.reach_m)
-            if box is None:
-                continue
-            boxes.append(box.bounds)
-            near = {others[index].line.id for index in tree.query(box).tolist()} - left_out
-            if not near:
-                continue
-            checked |= near
-            tips = movement_wingtips(context, movement, track)
-            for index in _near(tree, tips, scene.reach_m) if tips else []:
-                if others[index].line.id not in left_out:
-                    finding = _taxiway_finding(clearances, movement, track, tips, others[index])
-                    if finding is not None:
-                        findings.append(finding)
+    reached: set[str] = set()
+    rows = _query_rows(scene, movements)
+    boxes = [row[3] for row in rows]
+    for (movement, left_out, track, _), near_lines in zip(rows, _box_hits(tree, boxes), strict=True):
+        if not {others[index].line.id for index in near_lines} - left_out:
+            continue
+        tips = movement_wingtips(context, movement, track)
+        for index in _near(tree, tips, scene.reach_m) if tips else []:
+            if others[index].line.id not in left_out:
+                reached.add(others[index].line.id)
+                finding = _taxiway_finding(clearances, movement, track, tips, others[index])
+                if finding is not None:
+                    findings.append(finding)
     bounds = None
     if boxes:
         low_x, low_y, high_x, high_y = zip(*boxes, strict=True)
         bounds = (min(low_x), min(low_y), max(high_x), max(high_y))
-    return TaxiwayOutcome(tuple(findings), frozenset(checked), bounds)
+    return TaxiwayOutcome(tuple(findings), frozenset(reached), bounds)
+
+
+Bounds = tuple[float, float, float, float]
+
+
+def _query_rows(scene: TaxiwayScene, movements: Iterable[MovementInfo]
+                ) -> list[tuple[MovementInfo, set[str], TrackInfo, Bounds]]:
+    """Each track with a query box (its :func:`track_box`): its movement, the lines the movement
+    leaves out (its own and its junction's) and the box's bounds."""
+    rows = []
+    margin_m = scene.reach_m
+    movements = list(movements)
+    scene.track_bounds.prepare([track for movement in movements for track in movement.tracks])
+    for movement in movements:
+        junction = scene.context.junctions.get(movement.junction_id)
+        left_out = set(movement.line_ids) | set(junction.line_ids if junction is not None else ())
+        for track in movement.tracks:
+            found = scene.track_bounds(track)
+            if found is None or not math.isfinite(margin_m):
+                continue
+            low_x, low_y, high_x, high_y = found
+            rows.append((movement, left_out, track,
+                         (low_x - margin_m, low_y - margin_m, high_x + margin_m, high_y + margin_m)))
+    return rows
+
+
+def _box_hits(tree: shapely.STRtree, boxes: list[Bounds]) -> list[list[int]]:
+    """The tree's geometries whose envelopes meet each box, in one query."""
+    hits: list[list[int]] = [[] for _ in boxes]
+    if boxes:
+        low_x, low_y, high_x, high_y = zip(*boxes, strict=True)
+        queried, found = tree.query(shapely.box(low_x, low_y, high_x, high_y))
+        for row, index in zip(queried.tolist(), found.tolist(), strict=True):
+            hits[row].append(index)
+    return hits
 
 
 def _taxiway_finding(clearances: _TaxiwayClearances, movement: MovementInfo, track: TrackInfo,

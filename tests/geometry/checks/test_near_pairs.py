@@ -35,3 +35,41 @@ def test_kept_pairs_equal_a_fresh_query_through_random_changes() -> None:
         ids = sorted(lines)
         geometries = [lines[line_id] for line_id in ids]
         assert near.pairs(ids, geometries, distance_m) == _fresh(geometries, distance_m)  # identity
+
+
+def _polyline(rng: random.Random) -> list[tuple[float, float]]:
+    x, y = rng.uniform(0.0, 500.0), rng.uniform(0.0, 500.0)
+    points = [(x, y)]
+    for _ in range(5):
+        x, y = x + rng.uniform(-80.0, 80.0), y + rng.uniform(-80.0, 80.0)
+        points.append((x, y))
+    return points
+
+
+def _box(points: list[tuple[float, float]]) -> tuple[float, float, float, float]:
+    xs, ys = [x for x, _ in points], [y for _, y in points]
+    return (min(xs), min(ys), max(xs), max(ys))
+
+
+def test_pairs_measured_only_near_what_changed_equal_a_fresh_query() -> None:
+    rng = random.Random(11)
+    points = {f"l{k}": _polyline(rng) for k in range(25)}
+    near = NearPairs()
+    ids = sorted(points)
+    near.update(ids, [shapely.LineString(points[line_id]) for line_id in ids], 30.0)
+    geometries = {line_id: shapely.LineString(points[line_id]) for line_id in ids}
+    for _ in range(80):
+        line_id = rng.choice(ids)
+        index = rng.randrange(6)
+        before = points[line_id]
+        after = list(before)
+        x, y = before[index]
+        after[index] = (x + rng.uniform(-40.0, 40.0), y + rng.uniform(-40.0, 40.0))
+        points[line_id] = after
+        geometries[line_id] = shapely.LineString(after)
+        # The boxes of the two segments at the moved vertex, before and after the move.
+        around = slice(max(index - 1, 0), index + 2)
+        regions = (_box(before[around]), _box(after[around]))
+        ordered = [geometries[name] for name in ids]
+        near.update(ids, ordered, 30.0, {line_id: regions})
+        assert near.pairs(ids, ordered, 30.0) == _fresh(ordered, 30.0)  # identity

@@ -7,11 +7,12 @@ import pytest
 import shapely
 
 from geometry.checks import LineInfo, MovementInfo, ObjectInfo, TrackInfo, run_checks
-from geometry.checks.wingtip_tracks import cockpit_xy
+from geometry.checks.wingtip_tracks import TrackBounds, cockpit_xy, track_bounds
 from geometry.findings import Finding
 from geometry.movements import junction_movements
 from geometry.network import Junction
 from geometry.sweep import sweep
+from geometry.theoretical import theoretical_airplane
 from geometry.turns import movement_path
 from geometry.units import to_metres
 from tests.geometry.checks.builders import (
@@ -118,3 +119,19 @@ def test_a_lead_in_running_past_the_leg_s_far_end_is_not_held_against_the_moveme
     raw = shapely.linestrings(turn.tracks[0].wingtip_left_xy)
     assert shapely.distance(raw, shapely.LineString([(-600, 0), (600, 0)])) < 5.0  # it would reach P0
     assert not wingtip_findings(lines, turn, "E-WINGTIP-TAXIWAY")
+
+
+def test_track_bounds_worked_out_together_equal_those_of_each_track() -> None:
+    rng = np.random.default_rng(7)
+    aircraft = theoretical_airplane("3")
+
+    def track(left: np.ndarray, right: np.ndarray) -> TrackInfo:
+        return TrackInfo(aircraft, 0.0, (0.0, 0.0), 1.0, (0.0, 0.0), 1.0, left, right)
+    tracks = [track(rng.uniform(-500.0, 500.0, (count, 2)), rng.uniform(-500.0, 500.0, (count, 2)))
+              for count in (1, 5, 17)]
+    broken = np.array([[np.nan, 1.0], [2.0, 3.0]])
+    tracks.append(track(broken, broken))
+    together = TrackBounds()
+    together.prepare(tracks)
+    for track in tracks:
+        assert together(track) == track_bounds(track)  # identity: the least and greatest coordinates
