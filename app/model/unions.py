@@ -1,15 +1,18 @@
 """The union of many keyed pieces, kept so that changing a few pieces does not redo the rest.
 
 A drag changes the same few pieces (a line's straight pavement, the junctions on it) frame after
-frame. ``TiledUnion`` keeps the union per square tile and re-unites only the tiles where a piece's
-clipped part changed, so a frame's cost does not grow with the layout; areas are sums over tiles,
+frame. ``TiledUnion`` keeps the union per square tile, clips a changed piece again only where its
+edges changed and re-unites only the tiles where a piece's clipped part changed, so a frame's cost
+does not grow with the layout (nor with the length of a dragged line); areas are sums over tiles,
 and the whole geometry is united only when something asks for it (``LazyGeometry``). The result
 always equals the plain union of all pieces (tests/app/test_tiled_union.py).
 """
 
 from __future__ import annotations
 
+import itertools
 import math
+import operator
 from collections.abc import Callable, Iterable, Mapping
 from dataclasses import dataclass
 
@@ -18,6 +21,8 @@ import numpy.typing as npt
 import shapely
 from shapely.geometry import Polygon
 from shapely.geometry.base import BaseGeometry
+
+from app.model.tile_clips import CHANGE_MARGIN_M, FEW_TILES, changed_boxes, clipped_parts
 
 FloatArray = npt.NDArray[np.float64]
 
@@ -119,6 +124,16 @@ class TileGrid:
         rows = range(math.floor((ymin - y0) / self.size_m), math.floor((ymax - y0) / self.size_m) + 1)
         return [(column, row) for column in columns for row in rows]
 
+    def tiles_of_boxes(self, boxes_m: FloatArray) -> set[Tile]:
+        """The tiles each row (xmin, ymin, xmax, ymax) of ``boxes_m`` reaches into."""
+        x0, y0 = self.origin_m
+        spans = np.floor((boxes_m - (x0, y0, x0, y0)) / self.size_m).astype(np.int64)
+        within_one = (spans[:, 0] == spans[:, 2]) & (spans[:, 1] == spans[:, 3])
+        tiles = set(zip(spans[within_one, 0].tolist(), spans[within_one, 1].tolist(), strict=True))
+        for column_0, row_0, column_1, row_1 in set(map(tuple, spans[~within_one].tolist())):
+            tiles.update(itertools.product(range(column_0, column_1 + 1), range(row_0, row_1 + 1)))
+        return tiles
+
     def box(self, tile: Tile) -> Bounds:
         x0, y0 = self.origin_m[0] + tile[0] * self.size_m, self.origin_m[1] + tile[1] * self.size_m
         return (x0, y0, x0 + self.size_m, y0 + self.size_m)
@@ -174,7 +189,8 @@ def _edges_xy(geometry: BaseGeometry, box: Bounds | None) -> FloatArray:
     gap = np.isnan(drawn[:, 0])
     repeated = np.concatenate(([True], gap[1:] & gap[:-1])) & gap  # leading and doubled NaN rows
     drawn = drawn[~repeated]
-    return drawn[:-1] if len(drawn) and np.isnan(drawn[-1, 0]) else drawn
+    trimmed: FloatArray = drawn[:-1] if len(drawn) and np.isnan(drawn[-1, 0]) else drawn
+    return trimmed
 
 
 POLYGON_TYPE_ID = 3  # shapely.GeometryType.POLYGON
@@ -183,6 +199,9 @@ POLYGON_TYPE_ID = 3  # shapely.GeometryType.POLYGON
 class TiledUnion:
     """The union of keyed pieces, kept per tile: a call re-unites only the tiles where the clipped
     part of a piece changed (a changed, added or removed piece, where it was and where it is).
+
+    A changed piece is clipped again only in the tiles its change can reach (:func:`changed_boxes`),
+    or everywhere when it is not built like the piece it replaces.
 
     ``update(pieces, subtract)`` returns this frame's union and the union less ``subtract`` (the
     existing pavement: new pavement), both as :class:`TiledGeometry`.
@@ -205,20 +224,20 @@ class TiledUnion:
         self._drawing = TileDrawing()
         self._less_drawing = TileDrawing()
         self._extent: Bounds | None = None
+        self._exactly_clipped: set[str] = set()  # pieces with a part from the exact fallback clip
         self.last_united_tiles = 0  # tiles united again by the last call (for tests and benchmarks)
+        self.last_clipped_tiles = 0  # tiles a piece was clipped to by the last call (idem)
 
     def update(self, pieces: Mapping[str, BaseGeometry],
                subtract: BaseGeometry | None = None) -> tuple[TiledGeometry, TiledGeometry]:
-        if not self._fixed_grid:
-            self._fit_grid(pieces)
-        dirty: set[Tile] = set()
-        for key in self._pieces.keys() - pieces.keys():
-            for tile in self._tiles_of.pop(key):
-                self._parts[tile].pop(key, None)
-                dirty.add(tile)
-        for key, piece in pieces.items():
-            if self._pieces.get(key) is not piece:
-                dirty |= self._place(key, piece)
+        previous = self._pieces
+        changed = _changed_keys(previous, pieces)
+        if changed and not self._fixed_grid and self._fit_grid([pieces[key] for key in changed]):
+            previous, changed = self._pieces, list(pieces)  # coarser tiles: everything placed again
+        self.last_clipped_tiles = 0
+        dirty = self._remove_missing(pieces, changed)
+        for key in changed:
+            dirty |= self._place(key, pieces[key], previous.get(key))
         self._pieces = dict(pieces)
         for tile in dirty:
             self._unite(tile)
@@ -235,58 +254,78 @@ class TiledUnion:
             return total, total
         return total, TiledGeometry(dict(self._less), dict(self._less_areas), self.grid, self._less_drawing)
 
-    def _fit_grid(self, pieces: Mapping[str, BaseGeometry]) -> None:
-        """Coarser tiles (and a fresh start) when the changed pieces reach beyond what this tile size
-        covers in MAX_TILES_PER_SIDE tiles a side."""
-        changed = [piece for key, piece in pieces.items() if self._pieces.get(key) is not piece]
-        if not changed:
-            return
+    def _remove_missing(self, pieces: Mapping[str, BaseGeometry], changed: list[str]) -> set[Tile]:
+        """Takes out the pieces that are gone; the tiles they were in."""
+        previous = self._pieces
+        added = sum(1 for key in changed if key not in previous)
+        dirty: set[Tile] = set()
+        if len(previous) == len(pieces) - added:  # every previous key is still there
+            return dirty
+        for key in previous.keys() - pieces.keys():
+            self._exactly_clipped.discard(key)
+            for tile in self._tiles_of.pop(key):
+                self._parts.get(tile, {}).pop(key, None)
+                dirty.add(tile)
+        return dirty
+
+    def _fit_grid(self, changed: list[BaseGeometry]) -> bool:
+        """Coarser tiles (and a fresh start: True) when the changed pieces reach beyond what this tile
+        size covers in MAX_TILES_PER_SIDE tiles a side."""
         low_x, low_y, high_x, high_y = shapely.total_bounds(np.array(changed, dtype=object))
         if self._extent is not None:
             low_x, low_y = min(low_x, self._extent[0]), min(low_y, self._extent[1])
             high_x, high_y = max(high_x, self._extent[2]), max(high_y, self._extent[3])
         if not np.isfinite([low_x, low_y, high_x, high_y]).all():
-            return  # only empty pieces changed
+            return False  # only empty pieces changed
         self._extent = (float(low_x), float(low_y), float(high_x), float(high_y))
         size_m = self.grid.size_m
         while max(high_x - low_x, high_y - low_y) > MAX_TILES_PER_SIDE * size_m:
             size_m *= 2.0
-        if size_m != self.grid.size_m:
-            self.grid = TileGrid(size_m, self.grid.origin_m)
-            extent = self._extent
-            self._reset()
-            self._extent = extent
+        if size_m == self.grid.size_m:
+            return False
+        self.grid = TileGrid(size_m, self.grid.origin_m)
+        extent = self._extent
+        self._reset()
+        self._extent = extent
+        return True
 
-    def _place(self, key: str, piece: BaseGeometry) -> set[Tile]:
-        """Clip ``piece`` to its tiles; the tiles whose part of it changed."""
+    def _place(self, key: str, piece: BaseGeometry, before: BaseGeometry | None) -> set[Tile]:
+        """Clip ``piece`` (replacing ``before``) to the tiles where it may have changed; the tiles
+        whose part of it changed."""
         old_tiles = self._tiles_of.get(key, ())
         candidates = [] if piece.is_empty else self.grid.tiles_of(piece.bounds)
+        boxes = (None if before is None or key in self._exactly_clipped or len(candidates) <= FEW_TILES
+                 else changed_boxes(before, piece, CHANGE_MARGIN_M))
+        if boxes is None:  # clip it everywhere
+            looked_at = {*candidates, *old_tiles}
+        else:
+            looked_at = self.grid.tiles_of_boxes(boxes)
+            candidates = list(looked_at)
+        new_parts = self._clip_to(key, piece, candidates)
+        changed: set[Tile] = set()
+        for tile in looked_at:
+            old, part = self._parts.get(tile, {}).get(key), new_parts.get(tile)
+            if part is None and old is not None:
+                del self._parts[tile][key]
+                changed.add(tile)
+            elif part is not None and (old is None or not shapely.equals_exact(old, part, tolerance=0.0)):
+                self._parts.setdefault(tile, {})[key] = part
+                changed.add(tile)
+        self._tiles_of[key] = (*(tile for tile in old_tiles if tile not in looked_at), *new_parts)
+        return changed
+
+    def _clip_to(self, key: str, piece: BaseGeometry, candidates: list[Tile]) -> dict[Tile, BaseGeometry]:
+        """``piece``'s non-empty parts in the ``candidates`` tiles."""
+        self.last_clipped_tiles += len(candidates)
         boxes = np.array([self.grid.box(tile) for tile in candidates]).reshape(-1, 4)
         if len(candidates) > 4:  # a long diagonal piece: clip only the tiles it meets
             meets = shapely.intersects(piece, shapely.box(boxes[:, 0], boxes[:, 1], boxes[:, 2], boxes[:, 3]))
             candidates = [tile for tile, hit in zip(candidates, meets, strict=True) if hit]
             boxes = boxes[meets]
-        new_tiles = tuple(candidates)
-        clipped = _clipped(piece, boxes)
-        changed = {tile for tile in old_tiles if tile not in set(new_tiles)}
-        kept = []
-        for tile, part in zip(new_tiles, clipped, strict=True):
-            parts = self._parts.setdefault(tile, {})
-            old = parts.get(key)
-            if part.is_empty:
-                if old is not None:
-                    del parts[key]
-                    changed.add(tile)
-                continue
-            kept.append(tile)
-            if old is None or not shapely.equals_exact(old, part, tolerance=0.0):
-                parts[key] = part
-                changed.add(tile)
-        for tile in old_tiles:
-            if tile not in new_tiles:
-                self._parts[tile].pop(key, None)
-        self._tiles_of[key] = tuple(kept)
-        return changed
+        clipped, exact = clipped_parts(piece, boxes)
+        # A part from the exact clip may depend on the whole piece: such a piece is clipped everywhere.
+        (self._exactly_clipped.add if exact else self._exactly_clipped.discard)(key)
+        return {tile: part for tile, part in zip(candidates, clipped, strict=True) if not part.is_empty}
 
     def _unite(self, tile: Tile) -> None:
         parts = list(self._parts.get(tile, {}).values())
@@ -315,24 +354,8 @@ class TiledUnion:
             self._less_areas[tile] = float(less.area)
 
 
-def _clipped(piece: BaseGeometry, boxes: npt.NDArray[np.float64]) -> list[BaseGeometry]:
-    """``piece`` within each box, normalised so that an unchanged part compares equal. A fast clip
-    that comes out invalid is redone as an exact intersection."""
-    if not len(boxes):
-        return []
-    parts = np.array([shapely.clip_by_rect(piece, *box) for box in boxes.tolist()], dtype=object)
-    invalid = ~shapely.is_valid(parts)
-    if invalid.any():
-        rectangles = shapely.box(boxes[invalid, 0], boxes[invalid, 1], boxes[invalid, 2], boxes[invalid, 3])
-        parts[invalid] = shapely.intersection(piece, rectangles)
-    return [part if part.is_empty or part.geom_type in _POLYGONAL else _polygons_in(part)
-            for part in shapely.normalize(parts)]
-
-
-_POLYGONAL = ("Polygon", "MultiPolygon")
-
-
-def _polygons_in(geometry: BaseGeometry) -> BaseGeometry:
-    """The polygons of a clip that also kept lines or points where the piece touches the box."""
-    polygons = [part for part in shapely.get_parts(geometry) if part.geom_type == "Polygon"]
-    return shapely.multipolygons(polygons) if polygons else Polygon()
+def _changed_keys(previous: Mapping[str, BaseGeometry], pieces: Mapping[str, BaseGeometry]) -> list[str]:
+    """The keys whose piece is not the previous object (scans in C when the keys are the same)."""
+    if len(previous) == len(pieces) and list(previous) == list(pieces):
+        return list(itertools.compress(pieces, map(operator.is_not, pieces.values(), previous.values())))
+    return [key for key, piece in pieces.items() if previous.get(key) is not piece]

@@ -1,5 +1,6 @@
 """TiledUnion: the union kept per tile equals the plain union of its pieces, whole, near a
-rectangle and as drawn edges; a drag unites again only the tiles it touches; the analysis' total and
+rectangle and as drawn edges; a drag unites again only the tiles it touches and clips a changed
+piece again only where it changed, with the very tiles of a fresh union; the analysis' total and
 new pavement equal the plain unions on every sample."""
 
 from __future__ import annotations
@@ -16,7 +17,9 @@ from app.fileio.layout_json import load_layout
 from app.model.analysis import LayoutAnalyzer
 from app.model.edits import move_vertex
 from app.model.results import LayoutResult
+from app.model.tile_clips import changed_boxes
 from app.model.unions import MAX_TILES_PER_SIDE, TiledGeometry, TiledUnion, TileGrid
+from geometry.pavement import straight_pavement
 
 SAMPLES = sorted((Path(__file__).resolve().parents[2] / "sample_layouts").glob("*.json"))
 GRID = TileGrid(size_m=50.0)  # small tiles, so that the pieces below span several
@@ -154,3 +157,75 @@ def test_a_layout_spanning_thousands_of_kilometres_gets_coarser_tiles_and_the_sa
     plain = shapely.union_all(list(pieces.values()))
     assert total.area_m2 == pytest.approx(plain.area, rel=1e-9)  # identity
     assert union.last_united_tiles < 4 * MAX_TILES_PER_SIDE  # identity: only the tiles the pieces meet
+
+
+# -- a changed piece is clipped again only where it changed ------------------------------------
+def pavement_of(points: list[tuple[float, float]], width_m: float = 23.0) -> shapely.Geometry:
+    """A line's straight pavement, as the analysis builds it (geometry/pavement.py)."""
+    return straight_pavement(np.array(points), width_m)
+
+
+def assert_tiles_as_fresh(union: TiledUnion, pieces: dict[str, shapely.Geometry]) -> None:
+    """Every tile's parts and union are exactly those a fresh union clips and unites."""
+    fresh = TiledUnion(union.grid)
+    fresh.update(pieces)
+    parts = {tile: keyed for tile, keyed in union._parts.items() if keyed}  # the tile contents compared
+    assert parts.keys() == {tile for tile, keyed in fresh._parts.items() if keyed}  # identity
+    for tile, keyed in parts.items():
+        assert keyed.keys() == fresh._parts[tile].keys()  # identity
+        assert all(shapely.equals_exact(part, fresh._parts[tile][key], tolerance=0.0)
+                   for key, part in keyed.items())  # identity: the very coordinates
+    assert union._union.keys() == fresh._union.keys()  # identity
+
+
+@settings(max_examples=40, deadline=None)
+@given(st.lists(st.tuples(st.integers(0, 5), st.floats(-30.0, 30.0), st.floats(-30.0, 30.0), st.booleans()),
+                min_size=1, max_size=6))
+def test_moving_vertices_of_long_pieces_gives_the_tiles_of_a_fresh_union(moves) -> None:  # type: ignore[no-untyped-def]
+    # An axis-parallel line (its mitre points slide along it), a slanted one and a holed pad.
+    axis = [(0.0, 10.0), (140.0, 10.0), (280.0, 10.0), (420.0, 10.0), (560.0, 10.0), (700.0, 10.0)]
+    slant = [(0.0, 0.0), (130.0, 75.0), (260.0, 150.0), (390.0, 225.0), (520.0, 300.0), (650.0, 375.0)]
+    pad = shapely.box(300.0, 200.0, 420.0, 320.0).difference(shapely.box(330.0, 230.0, 360.0, 260.0))
+    union = TiledUnion(GRID)
+    pieces = {"axis": pavement_of(axis), "slant": pavement_of(slant), "pad": pad}
+    union.update(pieces)
+    for index, dx_m, dy_m, on_axis in moves:
+        points = axis if on_axis else slant
+        x_m, y_m = points[index]
+        points[index] = (x_m + (0.0 if on_axis else dx_m), y_m + dy_m)
+        pieces = {**pieces, "axis" if on_axis else "slant": pavement_of(points)}
+        pieces["pad"] = shapely.Polygon([(x + (dx_m if i == 0 else 0.0), y) for i, (x, y) in
+                                         enumerate(pad.exterior.coords[:-1])], [pad.interiors[0].coords])
+        union.update(pieces)
+        assert_tiles_as_fresh(union, pieces)
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.integers(0, 7), st.floats(-40.0, 40.0), st.floats(-40.0, 40.0))
+def test_changed_boxes_cover_where_two_pieces_differ(index, dx_m, dy_m) -> None:  # type: ignore[no-untyped-def]
+    points = [(0.0, 0.0), (90.0, 20.0), (180.0, 0.0), (270.0, 40.0), (360.0, 0.0), (450.0, 0.0),
+              (540.0, 0.0), (630.0, 30.0)]
+    before = pavement_of(points)
+    points[index] = (points[index][0] + dx_m, points[index][1] + dy_m)
+    after = pavement_of(points)
+    boxes = changed_boxes(before, after, 0.0)
+    if boxes is None:  # not built alike: the union clips the whole piece again
+        return
+    covered = shapely.union_all(shapely.box(boxes[:, 0], boxes[:, 1], boxes[:, 2], boxes[:, 3]))
+    outside = before.symmetric_difference(after).difference(covered)
+    assert outside.area <= 1e-9 * before.area  # invariant: every change lies in a box
+
+
+def test_a_long_line_dragged_at_one_vertex_is_clipped_again_only_near_it() -> None:
+    # A 5 km zigzag line over 100 tiles of 50 m a row; its middle vertex dragged frame after frame.
+    points = [(float(x), 40.0 * (x // 500 % 2)) for x in range(0, 5001, 500)]
+    union = TiledUnion(GRID)
+    clipped = []
+    for step in range(4):
+        points[5] = (2500.0, 40.0 + 0.3 * step)
+        union.update({"line": pavement_of(points)})
+        clipped.append(union.last_clipped_tiles)
+    # identity: the vertex moves its own mitre points and its neighbours', so the edges from the
+    # second vertex before it to the second after it change: 2 km, 40 tiles a row, on 2 rows.
+    assert clipped[-1] <= 2 * (2000 // 50 + 2) < clipped[0] / 2
+    assert_tiles_as_fresh(union, {"line": pavement_of(points)})
