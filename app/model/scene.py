@@ -12,7 +12,6 @@ per-junction ``parts``, so a view re-reads only the parts that are not the array
 
 from __future__ import annotations
 
-import math
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
 from functools import lru_cache
@@ -27,12 +26,24 @@ from app.model.elements import (
     ExistingPavement,
     FixedObject,
     Layout,
+    RuleSetName,
     Runway,
     Vertex,
     iter_elements,
 )
 from app.model.results import LayoutResult
-from app.model.scene_arrays import JunctionParts, all_junction_parts, join_pieces, rings_xy
+from app.model.scene_arrays import (
+    JunctionParts,
+    all_junction_parts,
+    centerline_xy,
+    join_pieces,
+    rings_xy,
+    runway_outline_xy,
+)
+from app.model.scene_arrays import (
+    corner_arc_xy as corner_arc_xy,  # re-exported: the array helpers live in scene_arrays
+)
+from geometry.aircraft import DesignAircraft
 from geometry.errors import GeometryError
 from geometry.findings import Severity
 from geometry.rulesets import get_rule_set, governing_aircraft
@@ -51,9 +62,6 @@ LAYER_TITLES: dict[str, str] = {
 }
 LAYER_ORDER: tuple[str, ...] = tuple(LAYER_TITLES)
 
-# A drawn corner arc stays within this distance of the true arc; finer than any screen needs
-# at plan scales and far coarser than the analysis' own chord tolerance.
-DRAW_CHORD_TOLERANCE_M = 0.05
 SEVERITY_STYLES: dict[Severity, str] = {Severity.ERROR: "finding.error",
                                         Severity.WARNING: "finding.warning",
                                         Severity.INFO: "finding.info"}
@@ -63,12 +71,23 @@ SEVERITY_STYLES: dict[Severity, str] = {Severity.ERROR: "finding.error",
 class Shape:
     """Outlines of one style: (n, 2) metres, pieces separated by NaN rows; ``filled`` rings are
     filled by the even-odd rule, so holes stay open. ``parts``, when given, are the arrays ``xy``
-    joins, one per source (junction)."""
+    joins, one per source (junction); then ``given_xy`` is None and ``xy`` is joined when first
+    read (the view draws the parts: joining every track of the layout each frame of a drag cost
+    about a millisecond for nothing)."""
 
     style: str
-    xy: FloatArray
+    given_xy: FloatArray | None
     filled: bool = False
     parts: tuple[FloatArray, ...] = ()
+    _joined: list[FloatArray] = field(default_factory=list, repr=False)
+
+    @property
+    def xy(self) -> FloatArray:
+        if self.given_xy is not None:
+            return self.given_xy
+        if not self._joined:
+            self._joined.append(join_pieces(self.parts))
+        return self._joined[0]
 
     @property
     def drawn_parts(self) -> tuple[FloatArray, ...]:
@@ -77,7 +96,7 @@ class Shape:
 
 
 def joined_shape(style: str, parts: Sequence[FloatArray], filled: bool = False) -> Shape:
-    return Shape(style, join_pieces(parts), filled, tuple(parts))
+    return Shape(style, None, filled, tuple(parts))
 
 
 @dataclass(frozen=True, slots=True, eq=False)
@@ -112,67 +131,6 @@ class Scene:
 
 # --- arrays -------------------------------------------------------------------------------------
 
-def corner_arc_xy(before: Sequence[float], corner: Sequence[float], after: Sequence[float],
-                  radius_m: float, max_tangent_m: float) -> FloatArray | None:
-    """Points of the arc of ``radius_m`` rounding ``corner`` between the legs from ``before`` and to
-    ``after``; the tangent length is shortened to ``max_tangent_m`` (a smaller radius) where the legs
-    are too short, since a sketch must still draw. None for a straight-through or folded vertex."""
-    p0, p1, p2 = (np.asarray(p, dtype=float) for p in (before, corner, after))
-    u1, u2 = p1 - p0, p2 - p1
-    n1, n2 = float(np.hypot(*u1)), float(np.hypot(*u2))
-    if n1 == 0.0 or n2 == 0.0:
-        return None
-    u1, u2 = u1 / n1, u2 / n2
-    turn_rad = math.atan2(u1[0] * u2[1] - u1[1] * u2[0], float(u1 @ u2))
-    if abs(turn_rad) < 1e-9 or abs(turn_rad) > math.pi - 1e-6:
-        return None
-    half_tan = math.tan(abs(turn_rad) / 2.0)
-    radius = min(radius_m, max_tangent_m / half_tan)
-    start = p1 - u1 * radius * half_tan
-    side = 1.0 if turn_rad > 0.0 else -1.0
-    centre = start + side * radius * np.array([-u1[1], u1[0]])
-    step = 2.0 * math.acos(max(-1.0, 1.0 - DRAW_CHORD_TOLERANCE_M / radius)) if radius > 0 else math.pi
-    count = max(2, math.ceil(abs(turn_rad) / max(step, 1e-3)) + 1)
-    start_angle = math.atan2(start[1] - centre[1], start[0] - centre[0])
-    angles = start_angle + np.linspace(0.0, turn_rad, count)
-    return np.column_stack((centre[0] + radius * np.cos(angles), centre[1] + radius * np.sin(angles)))
-
-
-@lru_cache(maxsize=4096)
-def centerline_xy(vertices: tuple[Vertex, ...]) -> FloatArray:
-    """The centerline as drawn: straights between vertices, true arcs (flattened) at rounded corners.
-    Two rounded corners on one leg share it half and half. Cached by the (immutable) vertices and
-    returned read-only, since a drag redraws every line but changes one."""
-    points = _centerline_points(vertices)
-    points.flags.writeable = False
-    return points
-
-
-def _centerline_points(vertices: Sequence[Vertex]) -> FloatArray:
-    points = [np.array([[v.x_m, v.y_m]]) for v in vertices[:1]]
-    for index in range(1, len(vertices) - 1):
-        before, vertex, after = vertices[index - 1], vertices[index], vertices[index + 1]
-        arc = None
-        if vertex.corner_radius_m is not None:
-            leg_in = math.dist(before.xy, vertex.xy) * (0.5 if before.corner_radius_m else 1.0)
-            leg_out = math.dist(vertex.xy, after.xy) * (0.5 if after.corner_radius_m else 1.0)
-            arc = corner_arc_xy(before.xy, vertex.xy, after.xy, vertex.corner_radius_m,
-                                min(leg_in, leg_out))
-        points.append(arc if arc is not None else np.array([vertex.xy]))
-    if len(vertices) > 1:
-        points.append(np.array([vertices[-1].xy]))
-    return np.concatenate(points) if points else np.empty((0, 2))
-
-
-def runway_outline_xy(runway: Runway) -> FloatArray:
-    """The runway's rectangle (closed ring) from its thresholds and width."""
-    (x0, y0), (x1, y1) = runway.vertices[0].xy, runway.vertices[1].xy
-    length = math.hypot(x1 - x0, y1 - y0) or 1.0
-    nx, ny = -(y1 - y0) / length * runway.width_m / 2.0, (x1 - x0) / length * runway.width_m / 2.0
-    return np.array([[x0 + nx, y0 + ny], [x1 + nx, y1 + ny], [x1 - nx, y1 - ny],
-                     [x0 - nx, y0 - ny], [x0 + nx, y0 + ny]])
-
-
 # --- layers -------------------------------------------------------------------------------------
 
 def _centerlines_layer(layout: Layout, result: LayoutResult | None) -> LayerData:
@@ -182,7 +140,8 @@ def _centerlines_layer(layout: Layout, result: LayoutResult | None) -> LayerData
         polyline = drawn.get(centerline.id)
         by_kind[centerline.kind].append(polyline if polyline is not None
                                         else centerline_xy(centerline.vertices))
-    shapes = tuple(Shape(f"centerline.{kind}", join_pieces(pieces)) for kind, pieces in by_kind.items())
+    # a part per line: a drag changes one line, and the view re-reads only the part that is new
+    shapes = tuple(joined_shape(f"centerline.{kind}", pieces) for kind, pieces in by_kind.items())
     plain = [(c.id, v) for c in layout.centerlines for v in c.vertices if v.corner_radius_m is None]
     rounded = [(c.id, v) for c in layout.centerlines for v in c.vertices if v.corner_radius_m is not None]
     points = [PointSet("vertex", _xy([v.xy for _, v in plain]), keys=tuple(i for i, _ in plain)),
@@ -220,12 +179,27 @@ def _existing_xy(pavements: tuple[ExistingPavement, ...]) -> FloatArray:
     return xy
 
 
+_SHOULDER_RINGS: dict[int, tuple[BaseGeometry, FloatArray]] = {}
+
+
+def _shoulder_rings_xy(shoulders: BaseGeometry | None) -> FloatArray:
+    """:func:`rings_xy` of the shoulders, the same array while they are the same object (a drag's
+    live pass hands them back unchanged)."""
+    if shoulders is None:
+        return rings_xy(None)
+    found = _SHOULDER_RINGS.get(id(shoulders))
+    if found is None or found[0] is not shoulders:
+        _SHOULDER_RINGS.clear()  # one entry: the last result's
+        found = _SHOULDER_RINGS[id(shoulders)] = (shoulders, rings_xy(shoulders))
+    return found[1]
+
+
 def _pavement_layer(layout: Layout, result: LayoutResult | None,
                     parts: dict[str, JunctionParts]) -> LayerData:
     shapes = [Shape("pavement.existing", _existing_xy(layout.existing_pavements), filled=True)]
     if result is not None:
         junctions = [parts[junction_id] for junction_id in result.junctions]
-        shapes += [Shape("pavement.shoulder", rings_xy(result.shoulders), filled=True),
+        shapes += [Shape("pavement.shoulder", _shoulder_rings_xy(result.shoulders), filled=True),
                    joined_shape("pavement.new", result.new_pavement_rings_xy(), filled=True),
                    joined_shape("pavement.fillet", [j.fillets for j in junctions], filled=True),
                    joined_shape("pavement.edge", result.pavement_edges_xy()),
@@ -245,15 +219,21 @@ def _tracks_layer(name: str, result: LayoutResult | None, parts: dict[str, Junct
 def clearance_half_widths_m(layout: Layout) -> dict[str, float]:
     """Centerline-to-object separation by centerline kind, of the layout's rule set for the
     fleet's governing aircraft (empty without a fleet, or when it lies outside the groups)."""
-    if not layout.fleet:
-        return {}
+    return dict(_half_widths_m(layout.fleet, layout.rule_set))
+
+
+@lru_cache(maxsize=64)
+def _half_widths_m(fleet: tuple[DesignAircraft, ...], rule_set: RuleSetName) -> tuple[tuple[str, float], ...]:
+    """(kind, separation) pairs, cached: classifying the fleet took a fifth of a drag frame's scene."""
+    if not fleet:
+        return ()
     try:
-        rules = get_rule_set(layout.rule_set)
-        aircraft = governing_aircraft(layout.fleet, rules)
-        return {"taxiway": rules.separation("taxiway_object", aircraft).value_m,
-                "taxilane": rules.separation("taxilane_object", aircraft).value_m}
+        rules = get_rule_set(rule_set)
+        aircraft = governing_aircraft(fleet, rules)
+        return (("taxiway", rules.separation("taxiway_object", aircraft).value_m),
+                ("taxilane", rules.separation("taxilane_object", aircraft).value_m))
     except GeometryError:
-        return {}
+        return ()
 
 
 @lru_cache(maxsize=4096)
@@ -272,19 +252,28 @@ def _clearance_zones(layout: Layout) -> BaseGeometry | None:
 
 
 def _objects_layer(layout: Layout) -> LayerData:
-    areas = [obj.outline + obj.outline[:1] for obj in layout.objects if len(obj.outline) >= 3]
-    lines = [obj.outline for obj in layout.objects if len(obj.outline) == 2]
-    spots = [obj for obj in layout.objects if len(obj.outline) == 1]
-    labelled = [obj for obj in layout.objects if obj.name]
-    return LayerData("objects",
-                     (Shape("object.body", join_pieces(areas), filled=True),
-                      Shape("object.outline", join_pieces([*areas, *lines])),
-                      Shape("object.clearance", rings_xy(_clearance_zones(layout)))),
-                     (PointSet("object.point", _xy([obj.outline[0] for obj in spots]),
-                               keys=tuple(obj.id for obj in spots)),
-                      PointSet("object.label", _xy([_label_point(obj) for obj in labelled]),
-                               labels=tuple(obj.name for obj in labelled),
-                               keys=tuple(obj.id for obj in labelled))))
+    body, outline, points = _object_drawing(layout.objects)
+    clearance = Shape("object.clearance", rings_xy(_clearance_zones(layout)))
+    return LayerData("objects", (body, outline, clearance), points)
+
+
+@lru_cache(maxsize=8)
+def _object_drawing(objects: tuple[FixedObject, ...]) -> tuple[Shape, Shape, tuple[PointSet, ...]]:
+    """The objects' bodies, outlines, symbols and labels, cached: the layer is rebuilt whenever a
+    centerline moves (the clearance zones follow the lines), the objects themselves are not."""
+    areas = [obj.outline + obj.outline[:1] for obj in objects if len(obj.outline) >= 3]
+    lines = [obj.outline for obj in objects if len(obj.outline) == 2]
+    spots = [obj for obj in objects if len(obj.outline) == 1]
+    labelled = [obj for obj in objects if obj.name]
+    arrays = [join_pieces(areas), join_pieces([*areas, *lines]), _xy([obj.outline[0] for obj in spots]),
+              _xy([_label_point(obj) for obj in labelled])]
+    for array in arrays:
+        array.flags.writeable = False  # shared by every scene built from these objects
+    body, outline, spot_xy, label_xy = arrays
+    return (Shape("object.body", body, filled=True), Shape("object.outline", outline),
+            (PointSet("object.point", spot_xy, keys=tuple(obj.id for obj in spots)),
+             PointSet("object.label", label_xy, labels=tuple(obj.name for obj in labelled),
+                      keys=tuple(obj.id for obj in labelled))))
 
 
 def _findings_layer(result: LayoutResult | None) -> LayerData:

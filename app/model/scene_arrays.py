@@ -1,4 +1,5 @@
-"""Arrays the plan view draws, and what each junction result adds to them (Qt-free).
+"""Arrays the plan view draws, and what each junction result adds to them (Qt-free): centerlines
+with their corner arcs, runway outlines, polygon rings, pieces joined by NaN rows.
 
 Pieces of one style are joined into one (n, 2) array with a NaN row between pieces. What one
 junction contributes (fillets, required pavement, tracks) is kept in :class:`JunctionParts`
@@ -8,17 +9,86 @@ junction a change did not touch, so a drag rebuilds the arrays of 2 or 3 junctio
 
 from __future__ import annotations
 
-from collections.abc import Iterable
+import math
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
+from functools import lru_cache
 
 import numpy as np
 import numpy.typing as npt
 import shapely
 from shapely.geometry.base import BaseGeometry
 
+from app.model.elements import Runway, Vertex
 from app.model.results import JunctionResult, LayoutResult
 
 FloatArray = npt.NDArray[np.float64]
+
+
+# A drawn corner arc stays within this distance of the true arc; finer than any screen needs
+# at plan scales and far coarser than the analysis' own chord tolerance.
+DRAW_CHORD_TOLERANCE_M = 0.05
+
+
+def corner_arc_xy(before: Sequence[float], corner: Sequence[float], after: Sequence[float],
+                  radius_m: float, max_tangent_m: float) -> FloatArray | None:
+    """Points of the arc of ``radius_m`` rounding ``corner`` between the legs from ``before`` and to
+    ``after``; the tangent length is shortened to ``max_tangent_m`` (a smaller radius) where the legs
+    are too short, since a sketch must still draw. None for a straight-through or folded vertex."""
+    p0, p1, p2 = (np.asarray(p, dtype=float) for p in (before, corner, after))
+    u1, u2 = p1 - p0, p2 - p1
+    n1, n2 = float(np.hypot(*u1)), float(np.hypot(*u2))
+    if n1 == 0.0 or n2 == 0.0:
+        return None
+    u1, u2 = u1 / n1, u2 / n2
+    turn_rad = math.atan2(u1[0] * u2[1] - u1[1] * u2[0], float(u1 @ u2))
+    if abs(turn_rad) < 1e-9 or abs(turn_rad) > math.pi - 1e-6:
+        return None
+    half_tan = math.tan(abs(turn_rad) / 2.0)
+    radius = min(radius_m, max_tangent_m / half_tan)
+    start = p1 - u1 * radius * half_tan
+    side = 1.0 if turn_rad > 0.0 else -1.0
+    centre = start + side * radius * np.array([-u1[1], u1[0]])
+    step = 2.0 * math.acos(max(-1.0, 1.0 - DRAW_CHORD_TOLERANCE_M / radius)) if radius > 0 else math.pi
+    count = max(2, math.ceil(abs(turn_rad) / max(step, 1e-3)) + 1)
+    start_angle = math.atan2(start[1] - centre[1], start[0] - centre[0])
+    angles = start_angle + np.linspace(0.0, turn_rad, count)
+    return np.column_stack((centre[0] + radius * np.cos(angles), centre[1] + radius * np.sin(angles)))
+
+
+@lru_cache(maxsize=4096)
+def centerline_xy(vertices: tuple[Vertex, ...]) -> FloatArray:
+    """The centerline as drawn: straights between vertices, true arcs (flattened) at rounded corners.
+    Two rounded corners on one leg share it half and half. Cached by the (immutable) vertices and
+    returned read-only, since a drag redraws every line but changes one."""
+    points = _centerline_points(vertices)
+    points.flags.writeable = False
+    return points
+
+
+def _centerline_points(vertices: Sequence[Vertex]) -> FloatArray:
+    points = [np.array([[v.x_m, v.y_m]]) for v in vertices[:1]]
+    for index in range(1, len(vertices) - 1):
+        before, vertex, after = vertices[index - 1], vertices[index], vertices[index + 1]
+        arc = None
+        if vertex.corner_radius_m is not None:
+            leg_in = math.dist(before.xy, vertex.xy) * (0.5 if before.corner_radius_m else 1.0)
+            leg_out = math.dist(vertex.xy, after.xy) * (0.5 if after.corner_radius_m else 1.0)
+            arc = corner_arc_xy(before.xy, vertex.xy, after.xy, vertex.corner_radius_m,
+                                min(leg_in, leg_out))
+        points.append(arc if arc is not None else np.array([vertex.xy]))
+    if len(vertices) > 1:
+        points.append(np.array([vertices[-1].xy]))
+    return np.concatenate(points) if points else np.empty((0, 2))
+
+
+def runway_outline_xy(runway: Runway) -> FloatArray:
+    """The runway's rectangle (closed ring) from its thresholds and width."""
+    (x0, y0), (x1, y1) = runway.vertices[0].xy, runway.vertices[1].xy
+    length = math.hypot(x1 - x0, y1 - y0) or 1.0
+    nx, ny = -(y1 - y0) / length * runway.width_m / 2.0, (x1 - x0) / length * runway.width_m / 2.0
+    return np.array([[x0 + nx, y0 + ny], [x1 + nx, y1 + ny], [x1 - nx, y1 - ny],
+                     [x0 - nx, y0 - ny], [x0 + nx, y0 + ny]])
 
 
 def join_pieces(pieces: Iterable[npt.ArrayLike]) -> FloatArray:

@@ -165,3 +165,15 @@ def test_selection_outline_follows_the_element() -> None:
     xy = selection_xy(layout, ["twy-2", "rwy-1"])
     assert nan_rows(xy) == 1 and len(xy) == 2 + 1 + 5
     assert math.isclose(float(np.nanmax(xy[:, 1])), 150.0)
+
+
+def test_a_moved_line_is_the_only_new_part_of_its_centerline_style() -> None:
+    layout = demo()
+    before = build_scene(layout).layers["centerlines"].shape("centerline.taxiway")
+    after = build_scene(move_vertex(layout, "twy-2", 1, 10.0, 150.0)).layers["centerlines"].shape(
+        "centerline.taxiway")
+    assert before is not None and after is not None
+    assert len(before.parts) == len(after.parts) == 2  # identity: a part per centerline
+    assert after.parts[0] is before.parts[0]  # identity: the unmoved line hands over its very array
+    assert after.parts[1] is not before.parts[1]  # identity: the moved line is drawn anew
+    assert np.array_equal(after.xy, join_pieces(after.parts), equal_nan=True)  # identity: xy joins the parts

@@ -20,6 +20,7 @@ import os
 import statistics
 import sys
 import tempfile
+import time
 from collections.abc import Callable
 from pathlib import Path
 
@@ -82,6 +83,69 @@ class _TimedCalls:
         return timed_call
 
 
+class _Breakdown:
+    """CPU time of the parts of a frame, printed to stderr (the JSON on stdout stays as it was):
+    the scene build, the canvas update (``show_scene``), the rest of ``refresh_now`` less the
+    analysis, and the event-loop paint of the changed items."""
+
+    def __init__(self, window: object) -> None:
+        import app.ui.main_window as main_window
+
+        self._parts: dict[str, list[float]] = {}
+        self._frame: dict[str, float] = {}
+        self._last = 0.0
+        self._wrap(main_window, "build_scene", "scene")
+        self._wrap(window.canvas, "show_scene", "show_scene")  # type: ignore[attr-defined]
+
+    def _wrap(self, owner: object, name: str, part: str) -> None:
+        call = getattr(owner, name)
+
+        def timed(*args: object, **kwargs: object) -> object:
+            _, cpu_s, result = wall_and_cpu(lambda: call(*args, **kwargs))
+            self._frame[part] = self._frame.get(part, 0.0) + cpu_s
+            return result
+        setattr(owner, name, timed)
+
+    def start(self) -> None:
+        self._last = time.process_time()
+
+    def mark(self, part: str) -> None:
+        now = time.process_time()
+        self._frame[part] = self._frame.get(part, 0.0) + now - self._last
+        self._last = now
+
+    def end_frame(self, analysis_s: float) -> None:
+        frame = self._frame
+        frame["refresh"] -= analysis_s + frame.get("scene", 0.0) + frame.get("show_scene", 0.0)
+        for part, seconds in frame.items():
+            self._parts.setdefault(part, []).append(1e3 * seconds)
+        self._frame = {}
+
+    def report(self) -> None:
+        names = {"scene": "build_scene", "show_scene": "show_scene", "refresh": "rest of refresh",
+                 "events": "event-loop paint"}
+        text = ", ".join(f"{names[part]} {statistics.median(ms):.1f}" for part, ms in self._parts.items())
+        print(f"UI part of a frame, CPU ms medians: {text}", file=sys.stderr)
+
+
+def _paint_counter_class() -> type:
+    from PySide6 import QtCore
+
+    class PaintCounter(QtCore.QObject):
+        """Counts the paint events of the widget it filters (a frame must paint once at least)."""
+
+        def __init__(self) -> None:
+            super().__init__()
+            self.count = 0
+
+        def eventFilter(self, watched: QtCore.QObject, event: QtCore.QEvent) -> bool:
+            if event.type() == QtCore.QEvent.Type.Paint:
+                self.count += 1
+            return False
+
+    return PaintCounter
+
+
 def measure(sample: Path, frames: int) -> dict[str, object]:
     from PySide6 import QtCore, QtWidgets
 
@@ -109,19 +173,26 @@ def measure(sample: Path, frames: int) -> dict[str, object]:
     target = sample_drag_target(document.layout, window.result)
     start = document.layout
     walls, cpus, analysis_cpus = [], [], []
+    breakdown = _Breakdown(window)
+    paints = _paint_counter_class()()
+    window.canvas.viewport().installEventFilter(paints)
     document.begin_preview()
     for x_m, y_m in drag_positions_m(target, frames):
         def frame(x_m: float = x_m, y_m: float = y_m) -> None:
             document.preview(edits.move_vertex(start, target.centerline_id, target.vertex_index, x_m, y_m))
             window.refresh_now()
-            window.canvas.viewport().repaint()
+            breakdown.mark("refresh")
+            app.processEvents()
+            breakdown.mark("events")
         analysis.cpu_s = 0.0
+        breakdown.start()
         wall, cpu, _ = wall_and_cpu(frame)
         walls.append(1e3 * wall)
         cpus.append(1e3 * cpu)
         analysis_cpus.append(1e3 * analysis.cpu_s)
-        app.processEvents()
+        breakdown.end_frame(analysis.cpu_s)
     document.cancel_preview()
+    breakdown.report()
     window.close()
     return {"drag_frame_ms": walls, "drag_frame_cpu_ms": cpus,
             "drag_frame_median_ms": statistics.median(walls),
@@ -130,6 +201,7 @@ def measure(sample: Path, frames: int) -> dict[str, object]:
             "analysis_cpu_ms": analysis_cpus,
             "analysis_cpu_median_ms": statistics.median(analysis_cpus),
             "ui_cpu_median_ms": statistics.median(c - a for c, a in zip(cpus, analysis_cpus, strict=True)),
+            "paints_per_frame": paints.count / max(frames, 1),
             "dragged": f"{target.centerline_id} vertex {target.vertex_index}"}
 
 

@@ -4,7 +4,7 @@ dashed outlines while it previews, and at its end the same drawing as the layout
 from __future__ import annotations
 
 import numpy as np
-from PySide6 import QtCore, QtGui
+from PySide6 import QtCore, QtGui, QtWidgets
 
 from app.model.analysis import LayoutAnalyzer
 from app.model.document import Document
@@ -107,3 +107,21 @@ def test_the_drawing_at_the_end_of_a_drag_is_the_drawing_of_the_layout_shown_afr
     # check value: identity
     assert window.canvas.view_box.viewRange() == fresh.canvas.view_box.viewRange()
     assert np.array_equal(image(window), image(fresh))  # identity: the same layout, the same view
+
+
+def test_a_frame_leaves_an_unchanged_selection_outline_alone(qtbot, settings) -> None:  # type: ignore[no-untyped-def]
+    window = live_window(qtbot, settings)
+    overlay = window.canvas.overlay
+    outline = np.array([[0.0, 0.0], [10.0, 0.0], [10.0, 5.0]])
+    overlay.set_selection(outline, (0.0, 0.0))
+    shown = overlay.selection.xData
+    overlay.set_selection(outline.copy(), (0.0, 0.0))
+    assert overlay.selection.xData is shown  # identity: an equal outline is not set again
+    overlay.set_selection(outline[:2], None)
+    assert len(overlay.selection.xData) == 2  # identity: a changed outline is shown
+
+
+def test_the_plan_view_repaints_one_rectangle_around_what_changed(qtbot, settings) -> None:  # type: ignore[no-untyped-def]
+    window = live_window(qtbot, settings)
+    mode = QtWidgets.QGraphicsView.ViewportUpdateMode.BoundingRectViewportUpdate
+    assert window.canvas.viewportUpdateMode() == mode  # identity: the mode set in canvas.py

@@ -11,7 +11,7 @@ import math
 
 import numpy as np
 import pyqtgraph as pg
-from PySide6 import QtWidgets
+from PySide6 import QtCore, QtWidgets
 
 from app.model.scene import LayerData, PointSet, Shape
 from app.ui import style
@@ -22,13 +22,38 @@ from app.ui.style import Theme
 class PassiveScatter(pg.ScatterPlotItem):
     """Symbols that never take a click, so clicks on them reach the tools."""
 
+    _bounds_memo: tuple[tuple[object, ...], QtCore.QRectF] | None = None
+
     def mouseClickEvent(self, ev: object) -> None:
         ev.ignore()  # type: ignore[attr-defined]
+
+    def boundingRect(self) -> QtCore.QRectF:
+        """pyqtgraph's bounds, kept while its data-bounds cache (a new list whenever the points, the
+        symbol sizes or the view change), the largest symbol and the transforms stay: pyqtgraph works
+        them out in Python (~70 us) and Qt asks each scatter several times a repaint."""
+        scene = self.scene()
+        views = scene.views() if scene is not None else []
+        if not views:
+            return super().boundingRect()
+        key = (self.bounds, self._maxSpotPxWidth, self.sceneTransform(), views[0].viewportTransform())
+        memo = self._bounds_memo
+        if memo is not None and memo[0][0] is key[0] and memo[0][1:] == key[1:]:
+            return QtCore.QRectF(memo[1])
+        rect = super().boundingRect()
+        self._bounds_memo = (key, QtCore.QRectF(rect))
+        return rect
 
 
 # Symbols and labels are painted from a pixmap while they do not change: repainting them took
 # pyqtgraph about a millisecond a scatter (culling and placing every symbol in Python).
 _PIXMAP_CACHE = QtWidgets.QGraphicsItem.CacheMode.DeviceCoordinateCache
+
+
+def _show(item: pg.GraphicsObject, visible: bool) -> None:
+    """``setVisible`` only on a change: pyqtgraph runs Python callbacks on every call (about
+    0.05 ms an item, every item of a layer every frame of a drag)."""
+    if item.isVisible() != visible:
+        item.setVisible(visible)
 
 
 def _same_points(a: PointSet | None, b: PointSet) -> bool:
@@ -115,7 +140,7 @@ class LayerGraphics:
         parts = shape.drawn_parts
         if len(parts) != len(curve.parts) or any(a is not b for a, b in zip(parts, curve.parts, strict=True)):
             curve.set_parts(parts)
-        curve.setVisible(self._visible and curve.has_content())
+        _show(curve, self._visible and curve.has_content())
 
     def _style_curve(self, curve: ShapeItem, style_key: str, filled: bool) -> None:
         if filled:
@@ -141,9 +166,9 @@ class LayerGraphics:
                 pen=style.shared_pen(points.style, self._theme),
                 brush=style.shared_brush(points.style, self._theme),
                 pxMode=True)
-            self._scatters[points.style].setVisible(self._visible and len(points.xy) > 0)
+            _show(self._scatters[points.style], self._visible and len(points.xy) > 0)
         for extra in self._labels[label_index:]:
-            extra.setVisible(False)
+            _show(extra, False)
         self._label_count = label_index
 
     def _scatter(self, style_key: str) -> PassiveScatter:
@@ -175,7 +200,7 @@ class LayerGraphics:
             if before[1:] != shown[1:]:
                 label.setPos(shown[1], shown[2])
             self._label_texts[index] = shown
-            label.setVisible(self._visible)
+            _show(label, self._visible)
         return start + len(points.labels)
 
     def _has_content(self, item: pg.GraphicsObject) -> bool:

@@ -21,6 +21,7 @@ class Overlay:
     def __init__(self, view_box: pg.ViewBox, theme: Theme) -> None:
         self._view_box = view_box
         self._theme = theme
+        self._shown: dict[int, tuple[np.ndarray, str | None]] = {}  # by item id: what it shows
         self.selection = self._curve(OVERLAY_Z - 2)
         self.movement = self._curve(OVERLAY_Z - 1)
         self.sketch = self._curve(OVERLAY_Z)
@@ -48,23 +49,37 @@ class Overlay:
 
     def set_theme(self, theme: Theme) -> None:
         self._theme = theme
+        self._shown.clear()  # marks take the theme's pens when next set
         for curve, key in ((self.selection, "selection"), (self.movement, "movement"),
                            (self.sketch, "sketch")):
             curve.setPen(style.pen(key, theme))
         self.snap_text.setColor(style.text_colour("snap.angle", theme))
 
-    @staticmethod
-    def _set_curve(curve: pg.PlotCurveItem, xy: np.ndarray) -> None:
+    def _set_curve(self, curve: pg.PlotCurveItem, xy: np.ndarray) -> None:
         xy = np.asarray(xy, dtype=float).reshape(-1, 2)
+        if self._unchanged(curve, xy, None):
+            return  # the window sets the selection every frame of a drag, mostly the same
         curve.setData(x=xy[:, 0].copy(), y=xy[:, 1].copy(), connect="finite")
         curve.setVisible(len(xy) > 0)
 
     def _set_marks(self, scatter: PassiveScatter, xy: np.ndarray, style_key: str) -> None:
+        xy = np.asarray(xy, dtype=float).reshape(-1, 2)
+        if self._unchanged(scatter, xy, style_key):
+            return
         spec = style.look(style_key)
-        scatter.setData(pos=np.asarray(xy, dtype=float).reshape(-1, 2), symbol=spec.symbol,
-                        size=spec.size, pen=style.pen(style_key, self._theme),
-                        brush=style.brush(style_key, self._theme))
+        scatter.setData(pos=xy, symbol=spec.symbol, size=spec.size,
+                        pen=style.shared_pen(style_key, self._theme),
+                        brush=style.shared_brush(style_key, self._theme))
         scatter.setVisible(len(xy) > 0)
+
+    def _unchanged(self, item: pg.GraphicsObject, xy: np.ndarray, style_key: str | None) -> bool:
+        """True if ``item`` already shows ``xy`` (in ``style_key``); else remembers them."""
+        shown = self._shown.get(id(item))
+        if (shown is not None and shown[1] == style_key and shown[0].shape == xy.shape
+                and bool(np.array_equal(shown[0], xy, equal_nan=True))):
+            return True
+        self._shown[id(item)] = (xy.copy(), style_key)
+        return False
 
     def set_sketch(self, points: Sequence[tuple[float, float]]) -> None:
         xy = np.asarray(points, dtype=float).reshape(-1, 2)
