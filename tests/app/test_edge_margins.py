@@ -101,4 +101,4 @@ def test_tracks_measured_together_give_each_points_own_distance(seed: int, lengt
     ring = Polygon([(-30, -30), (35, -25), (40, 30), (-5, 10), (-35, 25)]).exterior
     together = edge_distances_m(points, edge_segments(ring), [len(track) for track in tracks])
     assert together.shape == (len(points),)  # identity (one distance per point)
-    assert np.allclose(together, _reference_m(points, ring), rtol=0.0, atol=1e-9)  # identity (Euclidean distance)
+    assert np.allclose(together, _reference_m(points, ring), rtol=0.0, atol=1e-9)  # identity (Euclidean)
