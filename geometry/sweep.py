@@ -45,6 +45,7 @@ from geometry.sweep_pieces import (
     Pieces,
     at_stations,
     chain_pieces,
+    peak_alpha_rad,
     sample_stations,
     stations_on_pieces,
 )
@@ -251,12 +252,10 @@ def min_radius_for_steering_limit(aircraft: DesignAircraft, turn_rad: float) -> 
 def _peak_steering_rad(aircraft: DesignAircraft, radius_m: float, turn_rad: float) -> float:
     lead_m = SETTLING_LENGTH_CMG * aircraft.cmg_m
     path = standard_turn_path(radius_m, turn_rad, lead_m, lead_m)
-    try:
-        pieces = _chain_pieces(path, aircraft, 0.0)
-    except RadiusTooSmallError:
-        return _HALF_PI
     # alpha is monotone on each piece, so its extreme lies on a piece boundary.
-    peak_alpha = max(abs(alpha) for alpha in pieces.alphas_rad)
+    peak_alpha = peak_alpha_rad(path, aircraft.cmg_m)
+    if peak_alpha is None:  # the aircraft would roll backwards: the radius is too small
+        return _HALF_PI
     return float(steering_angle_rad(aircraft, np.array([peak_alpha]))[0])
 
 

@@ -87,6 +87,38 @@ def _chord_columns(kappa: float) -> tuple[float, float, float]:
     return 0.5 * kappa, 2.0 / kappa, 0.0
 
 
+def _segment_pieces(kappa: float, segment_length_m: float, cmg_m: float
+                    ) -> tuple[int, float, tuple[float, float, float, float, float]]:
+    """How many pieces a segment is cut into, their length, and their flow (:func:`_segment_flow`)."""
+    count = max(1, math.ceil(segment_length_m / piece_limit_m(kappa, cmg_m)))
+    piece_m = segment_length_m / count
+    return count, piece_m, _segment_flow(kappa, cmg_m, piece_m)
+
+
+def _piece_end_alpha(alpha0: float, kappa: float, cmg_m: float, c: float, g: float
+                     ) -> tuple[float, float, float]:
+    """Alpha at a piece's end from alpha at its start, and the two half-angle rates of the start:
+    exp(A s) = c I + g A applied to the half angle."""
+    rate_half, cos_half = (kappa - math.sin(alpha0) / cmg_m) / 2.0, math.cos(alpha0) / (2.0 * cmg_m)
+    return alpha0 + 2.0 * math.atan2(g * rate_half, c + g * cos_half), rate_half, cos_half
+
+
+def peak_alpha_rad(path: CenterlinePath, cmg_m: float) -> float | None:
+    """The largest |alpha| at any piece boundary of ``path`` from an aligned start, exactly as
+    :func:`chain_pieces` would find it (the same pieces and arithmetic, without the table), or
+    None where alpha reaches 90 degrees (the aircraft would roll backwards)."""
+    alpha, peak = 0.0, 0.0
+    for segment in path.segments:
+        kappa = segment.curvature_per_m
+        count, _, (_, _, _, c, g) = _segment_pieces(kappa, segment.length_m, cmg_m)
+        for _ in range(count):
+            alpha = _piece_end_alpha(alpha, kappa, cmg_m, c, g)[0]
+            if abs(alpha) >= HALF_PI:
+                return None
+            peak = max(peak, abs(alpha))
+    return peak
+
+
 def chain_pieces(path: CenterlinePath, cmg_m: float, alpha0_rad: float,
                  rolls_backwards: Callable[[Segment], Exception]) -> Pieces:
     """Cut the path into pieces and carry alpha from each piece's start to its end; raise
@@ -101,20 +133,17 @@ def chain_pieces(path: CenterlinePath, cmg_m: float, alpha0_rad: float,
         kappa, segment_length_m = segment.curvature_per_m, segment.length_m
         center = (0.0, 0.0) if isinstance(segment, Straight) else segment.center
         chord_columns = _chord_columns(kappa)
-        count = max(1, math.ceil(segment_length_m / piece_limit_m(kappa, cmg_m)))
-        piece_m = segment_length_m / count
-        m2, root, inverse_root, c, g = _segment_flow(kappa, cmg_m, piece_m)
+        count, piece_m, (m2, root, inverse_root, c, g) = _segment_pieces(kappa, segment_length_m, cmg_m)
         for index in range(count):
             starts.append(segment_start_m + index * piece_m)
             lengths.append(piece_m)
             curvatures.append(kappa)
             alpha0 = alphas[-1]
-            rate_half, cos_half = (kappa - math.sin(alpha0) / cmg_m) / 2.0, math.cos(alpha0) / (2.0 * cmg_m)
+            alpha1, rate_half, cos_half = _piece_end_alpha(alpha0, kappa, cmg_m, c, g)
             rows.append((alpha0, m2, root, inverse_root, rate_half, cos_half,
                          *_piece_start(segment, center, index * piece_m), *chord_columns))
-            # alpha at the piece's end: exp(A s) = c I + g A applied to the half angle
-            alphas.append(alpha0 + 2.0 * math.atan2(g * rate_half, c + g * cos_half))
-            if abs(alphas[-1]) >= HALF_PI:
+            alphas.append(alpha1)
+            if abs(alpha1) >= HALF_PI:
                 raise rolls_backwards(segment)
         segment_start_m += segment_length_m
     table = np.array(rows, dtype=float)

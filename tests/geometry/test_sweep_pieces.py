@@ -11,7 +11,13 @@ import pytest
 from geometry.errors import RadiusTooSmallError
 from geometry.path import CenterlinePath, standard_turn_path
 from geometry.primitives import Arc, Straight
-from geometry.sweep_pieces import at_stations, chain_pieces, sample_stations, stations_on_pieces
+from geometry.sweep_pieces import (
+    at_stations,
+    chain_pieces,
+    peak_alpha_rad,
+    sample_stations,
+    stations_on_pieces,
+)
 
 CMG_M = 20.0
 
@@ -65,3 +71,18 @@ def test_a_radius_too_tight_calls_the_planner_message() -> None:
     path = standard_turn_path(5.0, math.pi, 10.0, 10.0)
     with pytest.raises(RadiusTooSmallError):
         chain_pieces(path, CMG_M, 0.0, lambda segment: RadiusTooSmallError(str(segment)))
+
+
+@pytest.mark.parametrize("path", [standard_turn_path(45.0, math.pi, 40.0, 200.0),
+                                  standard_turn_path(12.0, -math.pi / 3, 200.0, 200.0), s_curve()])
+def test_the_peak_alpha_is_the_chained_pieces_own(path: CenterlinePath) -> None:
+    pieces = chain_pieces(path, CMG_M, 0.0, _never)
+    # identity: the same pieces and arithmetic, so the very same largest |alpha|
+    assert peak_alpha_rad(path, CMG_M) == max(abs(alpha) for alpha in pieces.alphas_rad)
+
+
+def test_no_peak_alpha_where_the_gear_would_roll_backwards() -> None:
+    path = standard_turn_path(3.0, math.pi, 40.0, 40.0)  # R far below d
+    with pytest.raises(RadiusTooSmallError):
+        chain_pieces(path, CMG_M, 0.0, RadiusTooSmallError)
+    assert peak_alpha_rad(path, CMG_M) is None  # identity: where chain_pieces raises
