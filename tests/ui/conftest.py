@@ -65,16 +65,22 @@ def demo_layout() -> Layout:
 WindowFactory = Callable[..., MainWindow]
 
 
+def shown_window(qtbot, settings: QtCore.QSettings, document: Document,  # type: ignore[no-untyped-def]
+                 analyze: Analyze | None = None, **options: object) -> MainWindow:
+    """A main window on ``document``, shown at a fixed size, its first analysis drawn."""
+    window = MainWindow(document, analyze, settings, **options)  # type: ignore[arg-type]
+    qtbot.addWidget(window)
+    window.resize(1300, 850)
+    window.show()
+    qtbot.waitExposed(window)
+    assert settle(window)  # check value: identity (the first analysis is drawn)
+    return window
+
+
 @pytest.fixture
 def make_window(qtbot, settings: QtCore.QSettings) -> Iterator[WindowFactory]:  # type: ignore[no-untyped-def]
     def make(layout: Layout | None = None, path: Path | None = None,
              analyze: Analyze | None = None) -> MainWindow:
-        window = MainWindow(Document(layout, path), analyze, settings)
-        qtbot.addWidget(window)
-        window.resize(1300, 850)
-        window.show()
-        qtbot.waitExposed(window)
-        assert settle(window)
-        return window
+        return shown_window(qtbot, settings, Document(layout, path), analyze)
 
     yield make

@@ -13,6 +13,7 @@ from app.model.elements import Centerline, Vertex
 from app.ui import style
 from app.ui.launch import settle
 from app.ui.main_window import MainWindow
+from tests.ui.conftest import shown_window
 from tests.ui.test_with_analysis import fleet_layout
 
 DRAFTED = ("pavement", ("pavement.required", False))
@@ -26,15 +27,8 @@ def two_tees() -> list[Centerline]:
 
 def live_window(qtbot, settings: QtCore.QSettings) -> MainWindow:  # type: ignore[no-untyped-def]
     analyzer = LayoutAnalyzer()
-    window = MainWindow(Document(fleet_layout(*two_tees())), analyzer.analyze, settings,
+    return shown_window(qtbot, settings, Document(fleet_layout(*two_tees())), analyzer.analyze,
                         analyze_live=analyzer.analyze_live)
-    qtbot.addWidget(window)
-    window.resize(1300, 850)
-    window.show()
-    qtbot.waitExposed(window)
-    # check value: identity
-    assert settle(window)
-    return window
 
 
 def preview_frame(window: MainWindow, x_m: float) -> None:
