@@ -324,10 +324,19 @@ def _uncovered_area_m2(off_straights: _Parts, outline: Polygon) -> float:
     return float(shapely.union_all(off_straights).difference(outline).area)
 
 
+def uncovered_parts(required: BaseGeometry, straights: BaseGeometry | Sequence[BaseGeometry]) -> _Parts:
+    """The parts of the required area that the straights, grown by :data:`COVER_TOLERANCE_M`, leave
+    uncovered: all :func:`fit_fillet` reads of the straights."""
+    paved = straights if isinstance(straights, BaseGeometry) else shapely.union_all(list(straights))
+    covered = paved.buffer(COVER_TOLERANCE_M, join_style="mitre")
+    parts: _Parts = shapely.get_parts(required.difference(covered))
+    return parts
+
+
 def fit_fillet(required: BaseGeometry, straights: BaseGeometry | Sequence[BaseGeometry],
                junction_point: Point, heading_a_rad: float, heading_b_rad: float, width_a_m: float,
                width_b_m: float, arc_center: Point, centerline_radius_m: float,
-               corner_key: str) -> Fillet | None:
+               corner_key: str, *, off_straights: _Parts | None = None) -> Fillet | None:
     """The least-area fillet of the usual form that contains the required pavement at a corner.
 
     Parameters
@@ -338,6 +347,8 @@ def fit_fillet(required: BaseGeometry, straights: BaseGeometry | Sequence[BaseGe
     width_a_m, width_b_m : the legs' design widths.
     arc_center, centerline_radius_m : the turn's centerline arc, tangent to both legs.
     corner_key : carried into the result.
+    off_straights : :func:`uncovered_parts` of ``required`` and ``straights``, when the caller has
+        it already (the fillet depends on the straights through it alone).
 
     Returns
     -------
@@ -359,11 +370,10 @@ def fit_fillet(required: BaseGeometry, straights: BaseGeometry | Sequence[BaseGe
     """
     frame = _corner_frame(junction_point, heading_a_rad, heading_b_rad, width_a_m, width_b_m, arc_center,
                           centerline_radius_m)
-    paved = straights if isinstance(straights, BaseGeometry) else shapely.union_all(list(straights))
     if required.is_empty:
         return None
-    covered = paved.buffer(COVER_TOLERANCE_M, join_style="mitre")
-    off_straights = shapely.get_parts(required.difference(covered))
+    if off_straights is None:
+        off_straights = uncovered_parts(required, straights)
     target = _target(frame, required, off_straights)
     if float(shapely.area(target.parts).sum()) < AREA_TOLERANCE_M2:
         return None

@@ -23,12 +23,13 @@ from app.model.elements import Centerline, Layout, Runway
 from app.model.junction_analysis import (
     LEAD_IN_IN_CMG,
     LEAD_OUT_IN_CMG,
+    CornerFit,
     JunctionInputs,
     SweptTurn,
     analyze_junction,
 )
+from app.model.recent_values import RecentValues
 from app.model.results import JunctionResult, LayoutResult
-from app.model.turn_memory import TurnMemory
 from app.model.unions import LazyGeometry, TiledUnion
 from geometry.centerline import centerline_segments, flatten
 from geometry.checks import IncrementalChecks
@@ -81,7 +82,8 @@ class LayoutAnalyzer:
         self._bends = BendFinder()
         self._check_inputs = CheckInputsBuilder()
         self._checks = IncrementalChecks()
-        self._turns: TurnMemory[SweptTurn] = TurnMemory()
+        self._turns: RecentValues[SweptTurn] = RecentValues()
+        self._fillets: RecentValues[CornerFit] = RecentValues()
         self._total_union = TiledUnion()
         self._existing: tuple[tuple[object, ...], BaseGeometry] | None = None
         self.last_recomputed_junctions = 0
@@ -141,8 +143,13 @@ class LayoutAnalyzer:
 
     @property
     def turns_from_memory(self) -> int:
-        """Swept turns answered from the turn memory since this analyzer was made (tests, benchmarks)."""
+        """Swept turns answered from memory since this analyzer was made (tests, benchmarks)."""
         return self._turns.hits
+
+    @property
+    def fillets_from_memory(self) -> int:
+        """Fitted corners answered from memory since this analyzer was made (tests, benchmarks)."""
+        return self._fillets.hits
 
     # -- the whole layout ------------------------------------------------------------------
     def analyze_live(self, layout: Layout) -> LayoutResult:
@@ -222,7 +229,8 @@ class LayoutAnalyzer:
             if found is None:
                 straight = shapely.union_all([straights[line_id] for line_id in junction.line_ids])
                 found = analyze_junction(JunctionInputs(junction, context, own_widths, straight, excluded,
-                                                        own_overrides, with_margins=full, turns=self._turns))
+                                                        own_overrides, with_margins=full, turns=self._turns,
+                                                        fillets=self._fillets))
                 self._junctions[key] = found
                 recomputed += 1
             results[junction.id], problems[junction.id] = found

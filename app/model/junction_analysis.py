@@ -19,10 +19,10 @@ from shapely.geometry.base import BaseGeometry
 from app.model.design_context import DesignContext, default_radius_m, edge_margin_m
 from app.model.edge_margins import EdgeSegments, edge_segments
 from app.model.junction_tracks import junction_tracks
+from app.model.recent_values import RecentValues, corner_key, turn_key
 from app.model.results import AircraftTracks, ArcRecord, FilletResult, JunctionResult, MovementResult
-from app.model.turn_memory import TurnMemory, turn_key
 from geometry.errors import GeometryError
-from geometry.fillets import fit_fillet
+from geometry.fillets import Fillet, fit_fillet, uncovered_parts
 from geometry.movements import Movement, corner_of, junction_movements
 from geometry.network import Junction
 from geometry.pavement import Polygonal, required_movement_areas
@@ -49,6 +49,9 @@ class SweptTurn:
     problem: str | None
 
 
+CornerFit = tuple[FilletResult | None, str | None]  # the fillet (None: none needed), the problem met
+
+
 @dataclass(frozen=True, slots=True, eq=False)
 class JunctionInputs:
     """Everything one junction's result depends on (the cache key is built from it)."""
@@ -60,7 +63,8 @@ class JunctionInputs:
     excluded: frozenset[str]
     overrides_m: tuple[tuple[str, float], ...]       # corner key -> radius
     with_margins: bool = True                        # False for the live pass of a drag preview
-    turns: TurnMemory[SweptTurn] | None = None       # swept turns of earlier junctions, by their inputs
+    turns: RecentValues[SweptTurn] | None = None     # swept turns of earlier junctions, by their inputs
+    fillets: RecentValues[CornerFit] | None = None   # fitted corners of earlier junctions, likewise
 
 
 def _arc_record(arc: Arc) -> ArcRecord:
@@ -121,7 +125,7 @@ def _compute_turn(movement: Movement, inputs: JunctionInputs, corner_key: str | 
 
 def _swept_turns(turns: Sequence[Movement], inputs: JunctionInputs) -> list[SweptTurn]:
     """Every turn swept with its required area; turns remembered in ``inputs.turns`` (equal
-    inputs, see app/model/turn_memory.py) are taken from there, the others computed together."""
+    inputs, see app/model/recent_values.py) are taken from there, the others computed together."""
     memory, context = inputs.turns, inputs.context
     found: list[SweptTurn | None] = []
     missing: list[tuple[int, Hashable, SweptTurn]] = []
@@ -175,28 +179,41 @@ def _with_own_area(one: SweptTurn, rules: str) -> SweptTurn:
 
 
 def _fit_corner(key: str, computed: list[SweptTurn], required: BaseGeometry, inputs: JunctionInputs,
-                local_straights: BaseGeometry) -> tuple[FilletResult | None, str | None]:
-    """The corner's fillet for ``required``, the union of its turns' required areas."""
+                local_straights: BaseGeometry) -> CornerFit:
+    """The corner's fillet for ``required``, the union of its turns' required areas; a corner
+    remembered in ``inputs.fillets`` with equal inputs is taken from there."""
     first = computed[0]
     corner = corner_of(first.movement, inputs.junction)
     leg_a, leg_b = corner.legs[0], corner.legs[-1]
     widths = dict(inputs.widths_m)
     assert first.arc is not None
+    geometry = (inputs.junction.point, leg_a.heading_rad, leg_b.heading_rad, widths[leg_a.line_id],
+                widths[leg_b.line_id], first.arc.center, first.arc.radius_m)
     try:
-        fillet = fit_fillet(required, local_straights, inputs.junction.point, leg_a.heading_rad,
-                            leg_b.heading_rad, widths[leg_a.line_id], widths[leg_b.line_id],
-                            first.arc.center, first.arc.radius_m, key)
+        uncovered = uncovered_parts(required, local_straights)
+        memory_key = corner_key(key, geometry, required, uncovered)
+        known = inputs.fillets.get(memory_key) if inputs.fillets is not None else None
+        if known is not None:
+            return known
+        fillet = fit_fillet(required, local_straights, *geometry, key, off_straights=uncovered)
     except GeometryError as error:
         return None, f"corner {key}: {error}"
+    fit = _fillet_result(key, fillet), None
+    if inputs.fillets is not None:
+        inputs.fillets.put(memory_key, fit)
+    return fit
+
+
+def _fillet_result(key: str, fillet: Fillet | None) -> FilletResult | None:
     if fillet is None:
-        return None, None
+        return None
     arc = None
     if fillet.arc is not None:
         arc = ArcRecord(fillet.arc.center, fillet.arc.radius_m, fillet.arc.start_angle_rad,
                         fillet.arc.end_angle_rad)
     edge = np.asarray(fillet.edge.coords, dtype=float)
     return FilletResult(key, fillet.fillet_radius_m, fillet.taper_a_m, fillet.taper_b_m, arc, edge,
-                        fillet.outline, fillet.area_m2), None
+                        fillet.outline, fillet.area_m2)
 
 
 MARGIN_EDGE_SIMPLIFY_M = 0.001  # the pavement edge is simplified this much before measuring margins
