@@ -42,16 +42,18 @@ def test_random_edits_through_a_warm_analyzer_give_the_fresh_findings(name: str)
         _assert_same_as_fresh(warm, layout)
 
 
-def test_a_drag_in_a_grid_gives_the_fresh_findings_and_redoes_few_items() -> None:
-    layout = grid_layout(6)
-    target = drag_target(6)
+@pytest.mark.parametrize(("size", "frames", "moves_after"), [(6, 2, EDITS_PER_LAYOUT), (9, 4, 0)])
+def test_a_drag_in_a_grid_gives_the_fresh_findings_every_frame(size: int, frames: int,
+                                                                moves_after: int) -> None:
+    layout = grid_layout(size)
+    target = drag_target(size)
     warm = LayoutAnalyzer()
     _assert_same_as_fresh(warm, layout)
-    for x_m, y_m in drag_positions_m(target, 2):
-        moved = edits.move_vertex(layout, target.centerline_id, target.vertex_index, x_m, y_m)
-        _assert_same_as_fresh(warm, moved)
-    rng = random.Random(6)
-    for _ in range(EDITS_PER_LAYOUT):
+    for x_m, y_m in drag_positions_m(target, frames):
+        _assert_same_as_fresh(warm, edits.move_vertex(layout, target.centerline_id, target.vertex_index,
+                                                      x_m, y_m))
+    rng = random.Random(size)
+    for _ in range(moves_after):  # then random moves from the start, through the same warm analyzer
         layout = random_move(layout, rng)
         _assert_same_as_fresh(warm, layout)
 
@@ -87,15 +89,6 @@ def test_random_edit_sequences_keep_the_fresh_findings_and_inputs(name: str) -> 
         assert inputs.movement_groups == _grouped(inputs.movements)  # identity: the same split
         assert inputs.crossovers == find_crossovers(network.junctions, layout.excluded_movements)  # identity
 
-
-def test_a_long_drag_in_a_grid_gives_the_fresh_findings_every_frame() -> None:
-    layout = grid_layout(9)
-    target = drag_target(9)
-    warm = LayoutAnalyzer()
-    _assert_same_as_fresh(warm, layout)
-    for x_m, y_m in drag_positions_m(target, 4):
-        _assert_same_as_fresh(warm, edits.move_vertex(layout, target.centerline_id, target.vertex_index,
-                                                      x_m, y_m))
 
 
 def test_a_drag_of_every_line_in_a_layout_with_findings_gives_the_fresh_findings() -> None:
