@@ -163,21 +163,22 @@ class JunctionNetwork:
     # What the next update reuses: sites, candidate trees, stations (shared, never changed).
     sites: NetworkSites | None = None
 
-    def station_m(self, leg: Leg) -> float:
-        """Where the junction of ``leg`` (a leg of one of this network's junctions) lies along the
-        leg's line: its distance from the line's start.
+    def station_m(self, junction: Junction, leg: Leg) -> float:
+        """Where ``junction`` (one of this network's) lies along the line of its ``leg``: its
+        distance from the line's start.
 
         Kept here, not in the leg, because it moves whenever the line changes before the junction,
         however far away. It depends only on the line and the contacts of the junction.
         """
-        marker = f"|{leg.line_id}{'+' if leg.direction > 0 else '-'}"
-        position = leg.id.rfind(marker)
-        ordinal_text = leg.id[position + len(marker):]
-        ordinal = int(ordinal_text[1:]) if ordinal_text.startswith("#") else 0
-        site = self.sites.by_id.get(leg.id[:position]) if self.sites is not None and position > 0 else None
-        places = [at for line_id, at in site.passes if line_id == leg.line_id] if site is not None else []
-        if self.sites is None or ordinal >= len(places):
-            raise NetworkError(f"leg {leg.id} is not a leg of a junction of this network")
+        prefix = f"{junction.id}|{leg.line_id}{'+' if leg.direction > 0 else '-'}"
+        suffix = leg.id[len(prefix):] if leg.id.startswith(prefix) else None
+        site = self.sites.by_id.get(junction.id) if self.sites is not None else None
+        if self.sites is None or site is None or suffix is None or suffix[:1] not in ("", "#"):
+            raise NetworkError(f"leg {leg.id} is not a leg of junction {junction.id} of this network")
+        ordinal = int(suffix[1:]) if suffix else 0  # which pass of the line, see the leg ids above
+        places = [at for line_id, at in site.passes if line_id == leg.line_id]
+        if ordinal >= len(places):
+            raise NetworkError(f"leg {leg.id} is not a leg of junction {junction.id} of this network")
         return self.sites.indexed[leg.line_id].station_m(places[ordinal])
 
 

@@ -39,7 +39,7 @@ def test_two_lines_crossing_make_one_crossing_with_four_legs() -> None:
     assert junction.point == pytest.approx((100.0, 0.0))  # identity
     # identity: legs point east, west, north and south
     assert headings_deg(junction) == {"twy-1+": 0.0, "twy-1-": 180.0, "twy-2+": 90.0, "twy-2-": -90.0}
-    lengths = {leg.id.split("|")[1]: (leg.length_m, network.station_m(leg), leg.direction)
+    lengths = {leg.id.split("|")[1]: (leg.length_m, network.station_m(junction, leg), leg.direction)
                for leg in junction.legs}
     assert lengths == {"twy-1+": (100.0, 100.0, 1), "twy-1-": (100.0, 100.0, -1),
                        "twy-2+": (150.0, 50.0, 1), "twy-2-": (50.0, 50.0, -1)}  # identity
@@ -184,9 +184,10 @@ def test_dragging_a_vertex_keeps_the_junctions_farther_along_its_line() -> None:
             junction_id = f"J:ew/v{number}#0"
             kept = next(junction for junction in updated.junctions if junction.id == junction_id)
             assert kept is before[junction_id]  # invariant: two or more crossings away, the same object
-        far = before["J:ew/v6#0"].leg("J:ew/v6#0|ew+")
+        far_junction = before["J:ew/v6#0"]
+        far = far_junction.leg("J:ew/v6#0|ew+")
         # invariant: its station along the line moved (the line grew), which the network keeps
-        assert updated.station_m(far) > network.station_m(far)
+        assert updated.station_m(far_junction, far) > network.station_m(far_junction, far)
         network = updated
 
 
@@ -258,7 +259,7 @@ def test_an_end_near_the_joint_of_two_pieces_snaps_to_the_nearer_piece() -> None
     (junction,) = network.junctions
     assert junction.kind == "tee" and junction.point == pytest.approx((249.7, 0.0))  # identity
     ahead = junction.leg(f"{junction.id}|a+")
-    assert network.station_m(ahead) == pytest.approx(249.7)  # identity
+    assert network.station_m(junction, ahead) == pytest.approx(249.7)  # identity
     assert ahead.straight_length_m == pytest.approx(0.3)  # identity: up to the arc at 250 m
 
 
