@@ -13,6 +13,7 @@ from shapely.geometry import LineString, MultiLineString, Polygon
 from app.model.edge_margins import (
     MARGIN_REACH_M,
     TREE_ABOVE_SEGMENTS,
+    EdgeSegments,
     edge_distances_m,
     edge_segments,
     signed_margins,
@@ -23,7 +24,8 @@ FAST = settings(max_examples=40, deadline=None)
 
 def _reference_m(points: np.ndarray, edge: shapely.Geometry) -> np.ndarray:
     """shapely's distance of each point to the edge, capped like the margins (identity)."""
-    return np.minimum(shapely.distance(edge, shapely.points(points)), MARGIN_REACH_M)
+    capped_m: np.ndarray = np.minimum(shapely.distance(edge, shapely.points(points)), MARGIN_REACH_M)
+    return capped_m
 
 
 def _track(seed: int, count: int, step_m: float = 1.0) -> np.ndarray:
@@ -102,3 +104,33 @@ def test_tracks_measured_together_give_each_points_own_distance(seed: int, lengt
     together = edge_distances_m(points, edge_segments(ring), [len(track) for track in tracks])
     assert together.shape == (len(points),)  # identity (one distance per point)
     assert np.allclose(together, _reference_m(points, ring), rtol=0.0, atol=1e-9)  # identity (Euclidean)
+
+
+def _brute_force_m(points: np.ndarray, segments: EdgeSegments) -> np.ndarray:
+    """Every point against every segment through the same formula, one array operation per step."""
+    count, every = len(points), segments.count
+    start_x, start_y, delta_x, delta_y, inverse = (row[None, :] for row in segments.table)
+    rel_x, rel_y = points[:, :1] - start_x, points[:, 1:] - start_y
+    along = np.clip((rel_x * delta_x + rel_y * delta_y) * inverse, 0.0, 1.0)
+    squared = (rel_x - along * delta_x) ** 2 + (rel_y - along * delta_y) ** 2
+    assert squared.shape == (count, every)  # identity (one distance per pair)
+    nearest_m: np.ndarray = np.minimum(np.sqrt(squared.min(axis=1)), MARGIN_REACH_M)
+    return nearest_m
+
+
+@FAST
+@given(st.integers(0, 10_000), st.lists(st.integers(0, 70), min_size=1, max_size=5), st.floats(3.0, 80.0))
+def test_the_block_prune_gives_the_brute_force_minimum_bit_for_bit(seed: int, lengths: list[int],
+                                                                    size_m: float) -> None:
+    # A dense wavy ring (many short segments, like flattened fillet arcs) and tracks near and across it.
+    angles = np.linspace(0.0, 2.0 * math.pi, 400)
+    radii = size_m * (1.0 + 0.2 * np.sin(7.0 * angles + seed))
+    ring = Polygon(np.column_stack((radii * np.cos(angles), radii * np.sin(angles)))).exterior
+    tracks = [_track(seed + number, length) if length else np.empty((0, 2))
+              for number, length in enumerate(lengths)]
+    points = np.concatenate(tracks)
+    segments = edge_segments(ring)
+    measured = edge_distances_m(points, segments, [len(track) for track in tracks])
+    # invariant: the prune only skips segments that cannot be nearest, and every kept pair goes
+    # through the same operations as the brute force, so the minimum is the same double
+    assert np.array_equal(measured, _brute_force_m(points, segments))
