@@ -5,14 +5,15 @@ Internal to :mod:`geometry.fillets` (its module docstring states the fillet form
 method). Seen from the turn centre C0, a required point at polar angle w and distance rho stays
 paved exactly when its window w +/- acos(F / rho) overlaps the arc's directions; for each F of a
 grid the steepest tapers, feasibility and the added area are closed forms, evaluated as a few
-whole-array numpy operations. Only the points that can set a steepest taper take part
-(:func:`front_points`, then :func:`_binding` once the bracket is narrowed), and the search stops
-once all that is left rounds down to the same centimetre (:data:`STEPS_PER_M`).
+whole-array numpy operations, both sides of the corner at once (a row per side: A, then B). Only
+the points that can set a steepest taper take part (:func:`search_points` for every F of the
+search, then :func:`_binding` once the bracket is narrowed), and the search stops once all that is
+left rounds down to the same centimetre (:data:`STEPS_PER_M`).
 """
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 import numpy.typing as npt
@@ -28,9 +29,12 @@ TERM_SLACK_RAD = 1e-12         # far above one arccos's rounding: a point droppe
 _TINY_M = 1e-200               # stands in for F = 0 in clearance / F (a ratio far above 1: angle 0)
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(frozen=True, slots=True, eq=False)
 class CornerFrame:
-    """The corner in its local frame (see the notes of :mod:`geometry.fillets`)."""
+    """The corner in its local frame (see the notes of :mod:`geometry.fillets`), with what the
+    search's formulas read of it worked out once: the turn Delta, the tangent length t, the
+    clearances c = R - w/2 (a column, a row per side), c^2, 2 c, and the area formula's constant
+    part, c (t - p) of both sides (:func:`added_area_m2`)."""
 
     junction: Point
     heading_a_rad: float
@@ -39,14 +43,24 @@ class CornerFrame:
     half_a_m: float
     half_b_m: float
     radius_m: float
+    turn_rad: float = field(init=False)
+    tangent_m: float = field(init=False)
+    clearance_m: FloatArray = field(init=False)
+    clearance_squared_m2: FloatArray = field(init=False)
+    twice_clearance_m: FloatArray = field(init=False)
+    corners_m2: float = field(init=False)
 
-    @property
-    def turn_rad(self) -> float:
-        return math.pi - self.angle_rad
-
-    @property
-    def tangent_m(self) -> float:
-        return self.radius_m / math.tan(self.angle_rad / 2.0)
+    def __post_init__(self) -> None:
+        tangent_m = self.radius_m / math.tan(self.angle_rad / 2.0)
+        clearance_a_m, clearance_b_m = self.radius_m - self.half_a_m, self.radius_m - self.half_b_m
+        clearance_m = np.array([[clearance_a_m], [clearance_b_m]])
+        sin_t, cos_t = math.sin(self.angle_rad), math.cos(self.angle_rad)
+        corners_m2 = (clearance_a_m * (tangent_m - (self.half_b_m + self.half_a_m * cos_t) / sin_t)
+                      + clearance_b_m * (tangent_m - (self.half_a_m + self.half_b_m * cos_t) / sin_t))
+        for name, value in (("turn_rad", math.pi - self.angle_rad), ("tangent_m", tangent_m),
+                            ("clearance_m", clearance_m), ("clearance_squared_m2", clearance_m * clearance_m),
+                            ("twice_clearance_m", 2.0 * clearance_m), ("corners_m2", corners_m2)):
+            object.__setattr__(self, name, value)
 
     @property
     def center(self) -> FloatArray:
@@ -57,16 +71,25 @@ class CornerFrame:
         half_a, half_b = self.half_a_m - inset_m, self.half_b_m - inset_m
         return np.array([(half_b + half_a * math.cos(self.angle_rad)) / math.sin(self.angle_rad), half_a])
 
-    def to_local(self, xy: FloatArray) -> FloatArray:
-        d = np.asarray(xy, dtype=float).reshape(-1, 2) - np.asarray(self.junction)
+    def local_xy(self, xy: FloatArray) -> tuple[FloatArray, FloatArray]:
+        """World points into the local frame, x and y apart."""
+        world = np.asarray(xy, dtype=float).reshape(-1, 2)
+        dx, dy = world[:, 0] - self.junction[0], world[:, 1] - self.junction[1]
         c, s = math.cos(self.heading_a_rad), math.sin(self.heading_a_rad)
-        return np.column_stack((c * d[:, 0] + s * d[:, 1], self.side * (c * d[:, 1] - s * d[:, 0])))
+        return c * dx + s * dy, self.side * (c * dy - s * dx)
 
     def to_world(self, xy: FloatArray) -> FloatArray:
         local = np.asarray(xy, dtype=float).reshape(-1, 2)
-        x, y = local[:, 0], self.side * local[:, 1]
+        return self.world_of(local[:, 0], local[:, 1])
+
+    def world_of(self, x_m: FloatArray, y_m: FloatArray) -> FloatArray:
+        """:meth:`to_world` of points given as x and y apart."""
+        y_m = self.side * y_m
         c, s = math.cos(self.heading_a_rad), math.sin(self.heading_a_rad)
-        return np.column_stack((self.junction[0] + c * x - s * y, self.junction[1] + s * x + c * y))
+        world = np.empty((len(x_m), 2))
+        world[:, 0] = self.junction[0] + c * x_m - s * y_m
+        world[:, 1] = self.junction[1] + s * x_m + c * y_m
+        return world
 
     def point_to_world(self, x_m: float, y_m: float) -> tuple[float, float]:
         """:meth:`to_world` of one point, in plain floats."""
@@ -90,121 +113,128 @@ class CornerFrame:
 @dataclass(frozen=True, slots=True)
 class SearchPoints:
     """Boundary points of the required area outside the straights, as seen from C0: polar angle
-    (from the foot of C0 on leg A, positive toward J and leg B) and distance, only those that can
-    set the steepest taper on side A (``*_a``) and on side B (``*_b``), see :func:`front_points`; each
-    a column, one row per point, against the F of a search along the row."""
+    and distance, a row per point, only those that can set a steepest taper for some F of the
+    search (:func:`search_points`). Side A's rows first, with the polar angle from the foot of C0
+    on leg A, positive toward J and leg B; then side B's, with the same angle measured from leg B
+    (Delta - polar); ``row_starts`` = (0, number of side A's rows). Each a column, against the F
+    of a search along the row."""
 
-    polar_a_rad: FloatArray
-    distance_a_m: FloatArray
-    polar_from_b_rad: FloatArray  # Delta - polar: the same angle measured from leg B
-    distance_b_m: FloatArray
+    polar_rad: FloatArray
+    distance_m: FloatArray
+    row_starts: npt.NDArray[np.intp]
     max_radius_m: float    # the disc of radius F must not reach into the required area
 
 
 _Values = FloatArray | float      # one value, or one per F of a search
 _Flags = npt.NDArray[np.bool_]
+_WINDOW_AT_ZERO_RAD = float(np.arccos(np.zeros(1))[0])  # acos(F / rho) at F = 0, as numpy gives it
 
 
-def front_points(polar_rad: FloatArray, distance_m: FloatArray) -> tuple[FloatArray, FloatArray]:
-    """The points that can set min(polar + acos(F / distance)) for some F. acos(F / rho) grows
-    with rho, so a point with no smaller polar angle and no smaller distance than another is never
-    below it: only the points nearer than every point of smaller polar angle remain."""
-    order = np.lexsort((distance_m, polar_rad))
-    distance = distance_m[order]
-    nearest_before = np.minimum.accumulate(distance)
-    keep = np.concatenate(([True], distance[1:] < nearest_before[:-1]))
-    return polar_rad[order][keep], distance[keep]
+def search_points(polar_rad: FloatArray, distance_m: FloatArray, turn_rad: float,
+                  max_radius_m: float) -> SearchPoints:
+    """The points that can set a steepest taper on either side for some F in [0, max_radius_m]:
+    the test of :func:`_binding` over that whole range. At F = 0 every window is acos(0), so the
+    least term there is that of the least polar angle from each leg (rounding is monotonic)."""
+    polar = np.concatenate((polar_rad, turn_rad - polar_rad)).reshape(2, -1)
+    window_at_largest = np.arccos(np.minimum(max_radius_m / distance_m, 1.0))
+    greatest_polar_rad = polar_rad[polar_rad.argmax()]
+    limit = np.array([[least_of(polar_rad) + _WINDOW_AT_ZERO_RAD + TERM_SLACK_RAD],
+                      [(turn_rad - greatest_polar_rad) + _WINDOW_AT_ZERO_RAD + TERM_SLACK_RAD]])
+    keep = polar + window_at_largest <= limit
+    _, columns = keep.nonzero()
+    return SearchPoints(polar[keep][:, None], distance_m[columns][:, None],
+                        np.array([0, np.count_nonzero(keep[0])]), max_radius_m)
 
 
-def _least_angle(clearance_m: float, radius_m: _Values) -> FloatArray:
+def least_of(values: FloatArray) -> float:
+    """values.min(), found by argmin: on arrays this small a numpy reduction costs several times
+    more (and so do any() and all(): np.count_nonzero stands in for them)."""
+    return float(values[values.argmin()])
+
+
+def _both(flags: _Flags) -> _Flags:
+    """flags.all(axis=0) of a row per side."""
+    return np.asarray(flags[0] & flags[1], dtype=np.bool_)
+
+
+def _terms(points: SearchPoints, radius_m: FloatArray) -> FloatArray:
+    """polar + acos(F / distance): each point's steepest taper angle (rows) at each F (columns)."""
+    return np.asarray(points.polar_rad + np.arccos(np.minimum(radius_m / points.distance_m, 1.0)),
+                      dtype=float)
+
+
+def _steepest(points: SearchPoints, terms: FloatArray) -> FloatArray:
+    """For each F, the steepest taper angles that keep every point paved (the window above): the
+    least of side A's terms and of side B's, a row per side."""
+    return np.asarray(np.minimum.reduceat(terms, points.row_starts, axis=0), dtype=float)
+
+
+def _least_angles(frame: CornerFrame, radius_m: FloatArray) -> FloatArray:
     """Taper angle at which the tangent meets the edge on the circle (no taper), for F > clearance;
-    0 for F = 0 (no circle)."""
-    return np.asarray(np.arccos(np.minimum(clearance_m / np.maximum(radius_m, _TINY_M), 1.0)), dtype=float)
+    0 for F = 0 (no circle). A row per side."""
+    return np.asarray(np.arccos(np.minimum(frame.clearance_m / np.maximum(radius_m, _TINY_M), 1.0)),
+                      dtype=float)
 
 
-@dataclass(frozen=True, slots=True)
-class _Tapers:
-    """For each F of a search: taper angles (phi_a, phi_b) and whether they keep every point paved."""
-
-    phi_a: FloatArray
-    phi_b: FloatArray
-    feasible: _Flags
+def _feasible(points: SearchPoints, radius_m: FloatArray, steepest: FloatArray, least: FloatArray) -> _Flags:
+    """Whether the steepest tapers at each F keep every point paved and can be built."""
+    return np.asarray((radius_m <= points.max_radius_m)
+                      & _both(steepest >= np.maximum(least, MIN_TAPER_ANGLE_RAD)), dtype=np.bool_)
 
 
-def _steepest(points: SearchPoints, radius_m: FloatArray) -> tuple[FloatArray, FloatArray]:
-    """For each F, the steepest taper angles that keep every point paved (the window above)."""
-    window_a = np.arccos(np.minimum(radius_m / points.distance_a_m, 1.0))
-    window_b = np.arccos(np.minimum(radius_m / points.distance_b_m, 1.0))
-    return (_column_minima(points.polar_a_rad + window_a), _column_minima(points.polar_from_b_rad + window_b))
-
-
-def _column_minima(terms: FloatArray) -> FloatArray:
-    """np.minimum.reduce(terms, axis=0), by np.minimum row after row when there are few rows
-    (a reduction costs as much as several element-wise calls on arrays this small)."""
-    if len(terms) > 8:
-        return np.asarray(np.minimum.reduce(terms, axis=0), dtype=float)
-    least: FloatArray = terms[0]
-    for row in terms[1:]:
-        least = np.minimum(least, row)
-    return least
-
-
-def taper_angles(frame: CornerFrame, points: SearchPoints, radius_m: FloatArray,
-                 steepest: tuple[FloatArray, FloatArray] | None = None) -> _Tapers:
-    """The steepest admissible taper angles for each F, shared out when the two tapers would meet
-    before the circle (any split between the two limits is admissible; the middle is taken)."""
-    steepest_a, steepest_b = _steepest(points, radius_m) if steepest is None else steepest
-    least_a, least_b = _least_angles(frame, radius_m)
-    feasible = _feasible(frame, points, radius_m, (steepest_a, steepest_b), (least_a, least_b))
+def _shared(frame: CornerFrame, steepest: FloatArray, least: FloatArray, crossing: _Flags) -> FloatArray:
+    """The steepest taper angles, shared out where the two tapers would meet before the circle
+    (any split between the two limits is admissible; the middle is taken)."""
     turn = frame.turn_rad
-    crossing = steepest_a + steepest_b > turn
-    if not crossing.any():
-        return _Tapers(steepest_a, steepest_b, feasible)
-    shared = (np.maximum(least_a, turn - steepest_b) + np.minimum(steepest_a, turn - least_b)) / 2.0
-    return _Tapers(np.where(crossing, shared, steepest_a), np.where(crossing, turn - shared, steepest_b),
-                   feasible)
+    shared = (np.maximum(least[0], turn - steepest[1]) + np.minimum(steepest[0], turn - least[1])) / 2.0
+    return np.asarray(np.where(crossing, np.concatenate((shared, turn - shared)).reshape(2, -1), steepest),
+                      dtype=float)
 
 
-def _least_angles(frame: CornerFrame, radius_m: FloatArray) -> tuple[FloatArray, FloatArray]:
-    return (_least_angle(frame.radius_m - frame.half_a_m, radius_m),
-            _least_angle(frame.radius_m - frame.half_b_m, radius_m))
+def taper_angles(frame: CornerFrame, points: SearchPoints, radius_m: FloatArray) -> FloatArray:
+    """The steepest admissible taper angles for each F (a row per side, a column per F)."""
+    steepest = _steepest(points, _terms(points, radius_m))
+    crossing = steepest[0] + steepest[1] > frame.turn_rad
+    if not np.count_nonzero(crossing):
+        return steepest
+    return _shared(frame, steepest, _least_angles(frame, radius_m), crossing)
 
 
-def taper_start_m(frame: CornerFrame, clearance_m: float, phi: _Values, radius_m: _Values) -> FloatArray:
-    """L: where the tangent at angle phi meets the inner edge (clearance = R - w/2)."""
-    return np.asarray(frame.tangent_m + (clearance_m * np.cos(phi) - radius_m) / np.sin(phi), dtype=float)
+def taper_start_m(frame: CornerFrame, phi_rad: FloatArray, radius_m: _Values) -> FloatArray:
+    """L: where the tangent at angle phi meets each inner edge (clearance = R - w/2); phi and the
+    result a row per side."""
+    return np.asarray(frame.tangent_m + (frame.clearance_m * np.cos(phi_rad) - radius_m) / np.sin(phi_rad),
+                      dtype=float)
 
 
-def added_area_m2(frame: CornerFrame, radius_m: _Values, phi_a: _Values, phi_b: _Values) -> FloatArray:
+def added_area_m2(frame: CornerFrame, radius_m: _Values, phi_rad: FloatArray) -> FloatArray:
     """Closed-form area of the fillet, summed from C0 (docs/pavement.md): triangles C0-P-Q_a and
     C0-Q_b-P, less the triangles C0-Q_a-T_a and C0-T_b-Q_b (right-angled at the tangent points)
     and the arc's sector. With c = R - w/2, L - t = (c cos phi - F) / sin phi and the taper length
     (c - F cos phi) / sin phi, each side gives c (t - p) + ((c^2 + F^2) cos phi - 2 c F) / sin phi,
-    p the edges' corner from J along that leg. Floats or arrays alike."""
-    clearance_a_m, clearance_b_m = frame.radius_m - frame.half_a_m, frame.radius_m - frame.half_b_m
+    p the edges' corner from J along that leg. phi_rad: a row per side (phi_a, phi_b), a column
+    per F (one column for one F)."""
     squared = radius_m * radius_m
-    side_a = ((clearance_a_m * clearance_a_m + squared) * np.cos(phi_a) - 2.0 * clearance_a_m * radius_m) \
-        / np.sin(phi_a)
-    side_b = ((clearance_b_m * clearance_b_m + squared) * np.cos(phi_b) - 2.0 * clearance_b_m * radius_m) \
-        / np.sin(phi_b)
-    sin_t, cos_t = math.sin(frame.angle_rad), math.cos(frame.angle_rad)
-    corners_m = (clearance_a_m * (frame.tangent_m - (frame.half_b_m + frame.half_a_m * cos_t) / sin_t)
-                 + clearance_b_m * (frame.tangent_m - (frame.half_a_m + frame.half_b_m * cos_t) / sin_t))
-    return np.asarray(0.5 * (corners_m + side_a + side_b - squared * (frame.turn_rad - phi_a - phi_b)),
-                      dtype=float)
+    sides = ((frame.clearance_squared_m2 + squared) * np.cos(phi_rad) - frame.twice_clearance_m * radius_m) \
+        / np.sin(phi_rad)
+    return np.asarray(0.5 * (frame.corners_m2 + sides[0] + sides[1]
+                             - squared * (frame.turn_rad - phi_rad[0] - phi_rad[1])), dtype=float)
 
 
-def _area_at(frame: CornerFrame, points: SearchPoints, radius_m: FloatArray,
-             steepest: tuple[FloatArray, FloatArray] | None = None) -> FloatArray:
+def _area_at(frame: CornerFrame, points: SearchPoints, radius_m: FloatArray, steepest: FloatArray,
+             least: FloatArray | None = None) -> FloatArray:
     """The added area at each F of a grid in [0, largest feasible F], where every F is feasible
-    (feasibility only shrinks as F grows), with the steepest tapers there."""
-    steepest_a, steepest_b = _steepest(points, radius_m) if steepest is None else steepest
-    if not (steepest_a + steepest_b > frame.turn_rad).any():
-        return added_area_m2(frame, radius_m, steepest_a, steepest_b)
+    (feasibility only shrinks as F grows), with the steepest tapers there. ``least``: the least
+    taper angles at each F, when they are known and every F is known to be feasible."""
+    crossing = steepest[0] + steepest[1] > frame.turn_rad
+    if not np.count_nonzero(crossing):
+        return added_area_m2(frame, radius_m, steepest)
     # the tapers meet before the circle at some F (always at F = 0): share them out there
-    tapers = taper_angles(frame, points, radius_m, (steepest_a, steepest_b))
-    areas = added_area_m2(frame, radius_m, tapers.phi_a, tapers.phi_b)
-    return np.where(tapers.feasible, areas, np.inf)
+    if least is not None:
+        return added_area_m2(frame, radius_m, _shared(frame, steepest, least, crossing))
+    least = _least_angles(frame, radius_m)
+    areas = added_area_m2(frame, radius_m, _shared(frame, steepest, least, crossing))
+    return np.where(_feasible(points, radius_m, steepest, least), areas, np.inf)
 
 
 def spaced(first: float, last: float, count: int) -> FloatArray:
@@ -224,24 +254,14 @@ def _grid(low: float, high: float) -> FloatArray:
     return grid
 
 
-def _feasible(frame: CornerFrame, points: SearchPoints, radius_m: FloatArray,
-              steepest: tuple[FloatArray, FloatArray] | None = None,
-              least: tuple[FloatArray, FloatArray] | None = None) -> _Flags:
-    """Whether the steepest tapers at each F keep every point paved and can be built."""
-    steepest_a, steepest_b = _steepest(points, radius_m) if steepest is None else steepest
-    least_a, least_b = _least_angles(frame, radius_m) if least is None else least
-    return np.asarray((radius_m <= points.max_radius_m)
-                      & (steepest_a >= np.maximum(least_a, MIN_TAPER_ANGLE_RAD))
-                      & (steepest_b >= np.maximum(least_b, MIN_TAPER_ANGLE_RAD)), dtype=np.bool_)
-
-
 def _largest_feasible_radius_m(frame: CornerFrame, points: SearchPoints, low: float, high: float) -> float:
     """Feasibility only shrinks as F grows (the windows narrow): nested grids find where it ends
     between a feasible ``low`` and an infeasible ``high``."""
     for _ in range(SEARCH_ROUNDS - 1):
         grid = _grid(low, high)
-        feasible = _feasible(frame, points, grid)
-        if feasible.all():
+        steepest = _steepest(points, _terms(points, grid))
+        feasible = _feasible(points, grid, steepest, _least_angles(frame, grid))
+        if np.count_nonzero(feasible) == RADIUS_GRID_SIZE:
             return float(grid[-1])
         last = int(np.argmin(feasible)) - 1
         low, high = float(grid[last]), float(grid[last + 1])
@@ -254,48 +274,58 @@ def least_area_radius_m(frame: CornerFrame, points: SearchPoints) -> float:
     The first grid over [0, the disc's limit] also tells whether F = 0 and the limit itself are
     feasible (usually the limit is: then its tapers serve the first round of areas too)."""
     grid = _grid(0.0, points.max_radius_m)
-    steepest = _steepest(points, grid)
-    feasible = _feasible(frame, points, grid, steepest)
+    terms = _terms(points, grid)
+    steepest = _steepest(points, terms)
+    least = _least_angles(frame, grid)
+    feasible = _feasible(points, grid, steepest, least)
     if not feasible[0]:
         raise FilletDoesNotFitError("the required pavement reaches beyond the turn centre or along a leg "
                                     "past any taper: no fillet of the usual form can contain it; "
                                     "check the turn radius and the pavement widths")
-    first: FloatArray | None = None
-    if feasible.all():
-        first = _area_at(frame, points, grid, steepest)
-    else:
+    first: tuple[FloatArray, FloatArray, FloatArray | None] = (terms, steepest, least)
+    if np.count_nonzero(feasible) < RADIUS_GRID_SIZE:
         last = int(np.argmin(feasible)) - 1
         grid = _grid(0.0, _largest_feasible_radius_m(frame, points, float(grid[last]), float(grid[last + 1])))
+        terms = _terms(points, grid)
+        first = (terms, _steepest(points, terms), None)
+    return _refined_radius_m(frame, points, grid, first)
+
+
+def _refined_radius_m(frame: CornerFrame, points: SearchPoints, grid: FloatArray,
+                      first: tuple[FloatArray, FloatArray, FloatArray | None]) -> float:
+    """The rounds of :func:`least_area_radius_m` from its first grid over [0, largest feasible F],
+    with the points' terms, the steepest and (when all are feasible) the least taper angles there."""
+    terms, steepest, least = first
     low, high = 0.0, float(grid[-1])
     best_area, best_radius = math.inf, high
     for round_index in range(SEARCH_ROUNDS):
         if _same_step(low, high) and low <= best_radius <= high:
             break
-        areas = first if round_index == 0 and first is not None else _area_at(frame, points, grid)
+        if round_index > 0:
+            terms = _terms(points, grid)
+            steepest, least = _steepest(points, terms), None
+        areas = _area_at(frame, points, grid, steepest, least)
         best = int(areas.argmin())
         if areas[best] < best_area:
             best_area, best_radius = float(areas[best]), float(grid[best])
-        low, high = float(grid[max(best - 1, 0)]), float(grid[min(best + 1, RADIUS_GRID_SIZE - 1)])
-        grid = _grid(low, high)
+        below, above = max(best - 1, 0), min(best + 1, RADIUS_GRID_SIZE - 1)
+        low, high = float(grid[below]), float(grid[above])
         if round_index == 0:  # from here on only [low, high] is searched
-            points = _binding(points, low, high)
+            points = _binding(points, terms[:, below], terms[:, above])
+        grid = _grid(low, high)
     return best_radius
 
 
-def _binding(points: SearchPoints, low_m: float, high_m: float) -> SearchPoints:
-    """Only the points that can set a steepest taper for some F in [low, high]. Each point's term
-    (polar + acos(F / rho)) falls as F grows, so a point whose term at ``high`` is above the least
-    term at ``low`` is above that point's term all along [low, high]: it never sets the minimum."""
-    keep_a = _may_bind(points.polar_a_rad, points.distance_a_m, low_m, high_m)
-    keep_b = _may_bind(points.polar_from_b_rad, points.distance_b_m, low_m, high_m)
-    return SearchPoints(points.polar_a_rad[keep_a], points.distance_a_m[keep_a],
-                        points.polar_from_b_rad[keep_b], points.distance_b_m[keep_b], points.max_radius_m)
-
-
-def _may_bind(polar_rad: FloatArray, distance_m: FloatArray, low_m: float, high_m: float) -> _Flags:
-    at_low = polar_rad + np.arccos(np.minimum(low_m / distance_m, 1.0))
-    at_high = polar_rad + np.arccos(np.minimum(high_m / distance_m, 1.0))
-    return np.asarray(at_high[:, 0] <= at_low.min() + TERM_SLACK_RAD, dtype=np.bool_)
+def _binding(points: SearchPoints, at_low: FloatArray, at_high: FloatArray) -> SearchPoints:
+    """Only the points that can set a steepest taper for some F in [low, high], given each point's
+    term (polar + acos(F / rho), :func:`_terms`) at ``low`` and at ``high``. A term falls as F
+    grows, so a point whose term at ``high`` is above the least term of its side at ``low`` is
+    above that point's term all along [low, high]: it never sets the minimum."""
+    rows_a = int(points.row_starts[1])
+    keep = np.concatenate((at_high[:rows_a] <= least_of(at_low[:rows_a]) + TERM_SLACK_RAD,
+                           at_high[rows_a:] <= least_of(at_low[rows_a:]) + TERM_SLACK_RAD))
+    return SearchPoints(points.polar_rad[keep], points.distance_m[keep],
+                        np.array([0, np.count_nonzero(keep[:rows_a])]), points.max_radius_m)
 
 
 def _same_step(low_m: float, high_m: float) -> bool:

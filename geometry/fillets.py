@@ -39,8 +39,9 @@ from geometry.fillet_search import (
     CornerFrame,
     SearchPoints,
     added_area_m2,
-    front_points,
     least_area_radius_m,
+    least_of,
+    search_points,
     spaced,
     taper_angles,
     taper_start_m,
@@ -144,10 +145,11 @@ def _wedge(frame: CornerFrame, reach_m: float) -> Polygon:
 @dataclass(frozen=True, slots=True)
 class _Target:
     """The required area off the straights and inside the corner: its parts, and their vertices
-    in the corner's local frame."""
+    in the corner's local frame, x and y apart."""
 
     parts: _Parts
-    local: FloatArray
+    x_m: FloatArray
+    y_m: FloatArray
 
 
 def _target(frame: CornerFrame, required: BaseGeometry, off_straights: _Parts) -> _Target:
@@ -155,36 +157,37 @@ def _target(frame: CornerFrame, required: BaseGeometry, off_straights: _Parts) -
     inner edges. A part whose vertices all lie in the (convex) wedge is inside it as it is; only
     the others are clipped by shapely."""
     if len(off_straights) == 0:
-        return _Target(off_straights, np.empty((0, 2)))
+        return _Target(off_straights, np.empty(0), np.empty(0))
     coordinates, index = shapely.get_coordinates(off_straights, return_index=True)
-    local = frame.to_local(coordinates)
+    x_m, y_m = frame.local_xy(coordinates)
     corner_x, corner_y = frame.corner_point()
-    along_b = (local[:, 1] - corner_y) / math.sin(frame.angle_rad)
-    along_a = (local[:, 0] - corner_x) - along_b * math.cos(frame.angle_rad)
+    along_b = (y_m - corner_y) / math.sin(frame.angle_rad)
+    along_a = (x_m - corner_x) - along_b * math.cos(frame.angle_rad)
     reach_m = _reach_m(frame, required)
-    inside = (along_a >= 0.0) & (along_a <= reach_m) & (along_b >= 0.0) & (along_b <= reach_m)
-    whole = np.bincount(index, weights=~inside, minlength=len(off_straights)) == 0
-    if whole.all():
-        return _Target(off_straights, local)
+    outside = (np.minimum(along_a, along_b) < 0.0) | (np.maximum(along_a, along_b) > reach_m)
+    if not np.count_nonzero(outside):
+        return _Target(off_straights, x_m, y_m)
+    whole = np.bincount(index, weights=outside, minlength=len(off_straights)) == 0
     clipped = shapely.get_parts(shapely.intersection(off_straights[~whole], _wedge(frame, reach_m)))
     clipped = clipped[~shapely.is_empty(clipped)]
-    return _Target(np.concatenate((off_straights[whole], clipped)),
-                   np.vstack((local[whole[index]], frame.to_local(shapely.get_coordinates(clipped)))))
+    clipped_x, clipped_y = frame.local_xy(shapely.get_coordinates(clipped))
+    kept = whole[index]
+    return _Target(np.concatenate((off_straights[whole], clipped)), np.concatenate((x_m[kept], clipped_x)),
+                   np.concatenate((y_m[kept], clipped_y)))
 
 
 def _points(frame: CornerFrame, target: _Target) -> SearchPoints:
-    local = np.vstack((target.local, frame.corner_point()))
-    offset = local - frame.center
-    polar = np.arctan2(-offset[:, 0], -offset[:, 1])
+    """The target's vertices and the edges' corner as seen from C0, for the search."""
+    corner = frame.corner_point()
+    to_centre_x = frame.tangent_m - np.concatenate((target.x_m, corner[:1]))
+    to_centre_y = frame.radius_m - np.concatenate((target.y_m, corner[1:]))
+    polar = np.arctan2(to_centre_x, to_centre_y)
     half_turn = frame.turn_rad / 2.0
     polar = half_turn + np.remainder(polar - half_turn + math.pi, 2.0 * math.pi) - math.pi
+    distance = np.hypot(to_centre_x, to_centre_y)
     centre = shapely.points(frame.point_to_world(frame.tangent_m, frame.radius_m))
-    max_radius_m = min(float(shapely.distance(centre, target.parts).min()), float(np.hypot(*offset[-1])))
-    distance = np.maximum(np.hypot(offset[:, 0], offset[:, 1]), 1e-12)
-    polar_a, distance_a = front_points(polar, distance)
-    negated_b, distance_b = front_points(-polar, distance)  # side B: the largest polar angles count
-    return SearchPoints(polar_a[:, None], distance_a[:, None], (frame.turn_rad + negated_b)[:, None],
-                        distance_b[:, None], max_radius_m)
+    max_radius_m = min(least_of(shapely.distance(centre, target.parts)), float(distance[-1]))
+    return search_points(polar, np.maximum(distance, 1e-12), frame.turn_rad, max_radius_m)
 
 
 @dataclass(frozen=True, slots=True)
@@ -213,18 +216,28 @@ def _side(frame: CornerFrame, half_m: float, radius_m: float, start_m: float) ->
     return _Side(phi, (start_m, half_m), touches, start_m)
 
 
-def _arc_points(frame: CornerFrame, radius_m: float, first_rad: float, last_rad: float) -> FloatArray:
-    """Points on the circle (chords inside it, so the outline holds a little more pavement)."""
+def _arc_xy(frame: CornerFrame, radius_m: float, first_rad: float,
+            last_rad: float) -> tuple[FloatArray, FloatArray]:
+    """Points on the circle (chords inside it, so the outline holds a little more pavement), x
+    and y apart."""
     count = 1
     if radius_m > ARC_SAGITTA_M and last_rad > first_rad:
         count = math.ceil((last_rad - first_rad) / (2.0 * math.acos(1.0 - ARC_SAGITTA_M / radius_m)))
     psi = spaced(first_rad, last_rad, count + 1)
-    return np.column_stack((frame.tangent_m + radius_m * -np.sin(psi),
-                            frame.radius_m + radius_m * -np.cos(psi)))
+    return frame.tangent_m - radius_m * np.sin(psi), frame.radius_m - radius_m * np.cos(psi)
 
 
-def _without_repeats(points: FloatArray) -> FloatArray:
-    return points[np.concatenate(([True], np.hypot(*np.diff(points, axis=0).T) > 1e-9))]
+def _edge_xy(frame: CornerFrame, radius_m: float, side_a: _Side, leaves_b: tuple[float, float],
+             last_rad: float) -> tuple[FloatArray, FloatArray]:
+    """The fillet edge from leg A to leg B in leg A's frame, x and y apart, without points within
+    1e-9 m of the one before: a straight chamfer when the tapers meet before the circle, otherwise
+    taper, arc, taper."""
+    (start_x, start_y), (end_x, end_y) = side_a.leaves, leaves_b
+    arc_x, arc_y = (np.empty(0), np.empty(0)) if last_rad < side_a.phi_rad else \
+        _arc_xy(frame, radius_m, side_a.phi_rad, last_rad)
+    x_m, y_m = np.concatenate(([start_x], arc_x, [end_x])), np.concatenate(([start_y], arc_y, [end_y]))
+    keep = np.concatenate(([True], np.hypot(x_m[1:] - x_m[:-1], y_m[1:] - y_m[:-1]) > 1e-9))
+    return x_m[keep], y_m[keep]
 
 
 def _world_arc(frame: CornerFrame, radius_m: float, touch_a: tuple[float, float],
@@ -245,21 +258,19 @@ def _build(frame: CornerFrame, corner_key: str, radius_m: float, start_a_m: floa
     leaves_b, touches_b = frame.mirror_point(*side_b.leaves), frame.mirror_point(*side_b.touches)
     last_rad = frame.turn_rad - side_b.phi_rad
     crossing = last_rad < side_a.phi_rad  # the tapers meet before the circle: a straight chamfer
-    ends = (side_a.leaves, leaves_b) if crossing else \
-        (side_a.leaves, _arc_points(frame, radius_m, side_a.phi_rad, last_rad), leaves_b)
-    edge_local = _without_repeats(np.vstack(ends))
-    inset_a = (edge_local[0][0], frame.half_a_m - OVERLAP_M)
+    edge_x, edge_y = _edge_xy(frame, radius_m, side_a, leaves_b, last_rad)
+    corner_x, corner_y = frame.corner_point(OVERLAP_M)
     inset_b = frame.mirror_point(side_b.leaves[0], frame.half_b_m - OVERLAP_M)
-    ring = np.vstack((frame.corner_point(OVERLAP_M), inset_a, edge_local, inset_b))
-    world = frame.to_world(ring)
+    world = frame.world_of(np.concatenate(([corner_x, edge_x[0]], edge_x, [inset_b[0]])),
+                           np.concatenate(([corner_y, frame.half_a_m - OVERLAP_M], edge_y, [inset_b[1]])))
     outline = cast(Polygon, shapely.polygons(world))
     area_m2 = float(outline.area) if crossing else float(added_area_m2(
-        frame, radius_m, side_a.phi_rad, side_b.phi_rad))
+        frame, radius_m, np.array([[side_a.phi_rad], [side_b.phi_rad]]))[0])
     has_arc = radius_m > 0.0 and last_rad > side_a.phi_rad
     return Fillet(
         corner_key=corner_key, fillet_radius_m=radius_m, taper_a_m=side_a.start_m, taper_b_m=side_b.start_m,
         center=frame.point_to_world(frame.tangent_m, frame.radius_m), outline=outline,
-        edge=cast(LineString, shapely.linestrings(world[2:2 + len(edge_local)])),
+        edge=cast(LineString, shapely.linestrings(world[2:2 + len(edge_x)])),
         arc=_world_arc(frame, radius_m, side_a.touches, touches_b) if has_arc else None,
         area_m2=area_m2, max_width_from_centerline_m=frame.radius_m - radius_m,
         taper_a_length_m=math.dist(side_a.leaves, side_a.touches),
@@ -269,9 +280,8 @@ def _build(frame: CornerFrame, corner_key: str, radius_m: float, start_a_m: floa
 def _rounded(frame: CornerFrame, points: SearchPoints, corner_key: str, radius_m: float) -> Fillet:
     """The fillet at F rounded down, with each L from the steepest taper there, rounded up."""
     radius_m = max(0.0, math.floor(radius_m * STEPS_PER_M) / STEPS_PER_M)
-    tapers = taper_angles(frame, points, np.array([radius_m]))
-    start_a = float(taper_start_m(frame, frame.radius_m - frame.half_a_m, tapers.phi_a[0], radius_m))
-    start_b = float(taper_start_m(frame, frame.radius_m - frame.half_b_m, tapers.phi_b[0], radius_m))
+    phi_rad = taper_angles(frame, points, np.array([radius_m]))
+    start_a, start_b = (float(start) for start in taper_start_m(frame, phi_rad, radius_m)[:, 0])
     return _build(frame, corner_key, radius_m, math.ceil(start_a * STEPS_PER_M) / STEPS_PER_M,
                   math.ceil(start_b * STEPS_PER_M) / STEPS_PER_M)
 
@@ -310,7 +320,7 @@ def _left_out_m2(outline: Polygon, target: _Parts) -> float | None:
     tolerances allow (AREA_TOLERANCE_M2, COVER_TOLERANCE_M). Shapely's covers (prepared) first;
     the tolerant measure only when it says no."""
     shapely.prepare(outline)
-    if bool(shapely.covers(outline, target).all()):
+    if np.count_nonzero(shapely.covers(outline, target)) == len(target):
         return 0.0
     gap = containment_gap(shapely.union_all(target), outline)
     held = gap.area_m2 < AREA_TOLERANCE_M2 and gap.max_distance_m <= COVER_TOLERANCE_M
@@ -319,17 +329,25 @@ def _left_out_m2(outline: Polygon, target: _Parts) -> float | None:
 
 def _uncovered_area_m2(off_straights: _Parts, outline: Polygon) -> float:
     """The area of the required area off the straights left outside the (prepared) outline."""
-    if bool(shapely.covers(outline, off_straights).all()):
+    if np.count_nonzero(shapely.covers(outline, off_straights)) == len(off_straights):
         return 0.0
     return float(shapely.union_all(off_straights).difference(outline).area)
 
 
-def uncovered_parts(required: BaseGeometry, straights: BaseGeometry | Sequence[BaseGeometry]) -> _Parts:
-    """The parts of the required area that the straights, grown by :data:`COVER_TOLERANCE_M`, leave
-    uncovered: all :func:`fit_fillet` reads of the straights."""
+def straights_cover(straights: BaseGeometry | Sequence[BaseGeometry]) -> BaseGeometry:
+    """The straights grown by :data:`COVER_TOLERANCE_M`: what :func:`uncovered_parts` takes away.
+    A caller fitting several corners against the same straights grows them once with this."""
     paved = straights if isinstance(straights, BaseGeometry) else shapely.union_all(list(straights))
-    covered = paved.buffer(COVER_TOLERANCE_M, join_style="mitre")
-    parts: _Parts = shapely.get_parts(required.difference(covered))
+    return paved.buffer(COVER_TOLERANCE_M, join_style="mitre")
+
+
+def uncovered_parts(required: BaseGeometry, straights: BaseGeometry | Sequence[BaseGeometry], *,
+                    cover: BaseGeometry | None = None) -> _Parts:
+    """The parts of the required area that the straights, grown by :data:`COVER_TOLERANCE_M`, leave
+    uncovered: all :func:`fit_fillet` reads of the straights. ``cover``: :func:`straights_cover`
+    of ``straights``, when the caller has it (the corners of a junction all read the same)."""
+    grown = straights_cover(straights) if cover is None else cover
+    parts: _Parts = shapely.get_parts(required.difference(grown))
     return parts
 
 

@@ -18,7 +18,7 @@ from shapely.geometry.base import BaseGeometry
 from geometry import fillet_search
 from geometry.aircraft import DesignAircraft
 from geometry.errors import FilletDoesNotFitError, InvalidCornerError, NonFiniteInputError
-from geometry.fillets import OVERLAP_M, Fillet, build_fillet, fit_fillet
+from geometry.fillets import OVERLAP_M, Fillet, build_fillet, fit_fillet, straights_cover, uncovered_parts
 from geometry.pavement import ARC_SAGITTA_M, containment_gap, required_movement_area, straight_pavement
 from geometry.published import fillet_radius_m as horonjeff_fillet_radius_m
 from geometry.published import lead_in_length_m as horonjeff_lead_in_m
@@ -327,22 +327,31 @@ def test_bad_corners_are_refused() -> None:
 def test_points_left_out_of_the_search_never_set_a_steepest_taper(pairs: list[tuple[float, float]],
                                                                    low_m: float, width_m: float) -> None:
     # identity: the search keeps only the points that can set min(polar + acos(F / distance)),
-    # first for every F (fillet_search.front_points), then for F in the narrowed bracket
-    # (fillet_search._binding)
+    # first for every F up to the disc's limit (fillet_search.search_points), then for F in the
+    # narrowed bracket (fillet_search._binding)
     polar = np.array([p for p, _ in pairs])
     distance = np.array([d for _, d in pairs])
-    turn_rad = 3.0
-    everything = fillet_search.SearchPoints(polar[:, None], distance[:, None], (turn_rad - polar)[:, None],
-                                            distance[:, None], 100.0)
-    front_a, distance_a = fillet_search.front_points(polar, distance)
-    negated_b, distance_b = fillet_search.front_points(-polar, distance)
-    front = fillet_search.SearchPoints(front_a[:, None], distance_a[:, None], (turn_rad + negated_b)[:, None],
-                                       distance_b[:, None], 100.0)
+    turn_rad, max_radius_m = 3.0, 100.0
+    everything = fillet_search.SearchPoints(np.concatenate((polar, turn_rad - polar))[:, None],
+                                            np.concatenate((distance, distance))[:, None],
+                                            np.array([0, len(polar)]), max_radius_m)
+    kept = fillet_search.search_points(polar, distance, turn_rad, max_radius_m)
     high_m = low_m + width_m
-    binding = fillet_search._binding(front, low_m, high_m)
-    radii_m = np.linspace(low_m, high_m, 50)
-    expected = fillet_search._steepest(everything, radii_m)
-    for kept in (front, binding):
-        for got, want in zip(fillet_search._steepest(kept, radii_m), expected, strict=True):
-            # check value: identity
-            assert np.array_equal(got, want)
+    at_ends = fillet_search._terms(kept, np.array([low_m, high_m]))
+    binding = fillet_search._binding(kept, at_ends[:, 0], at_ends[:, 1])
+    whole_m, bracket_m = np.linspace(0.0, max_radius_m, 200), np.linspace(low_m, high_m, 50)
+    for points, radii_m in ((kept, whole_m), (kept, bracket_m), (binding, bracket_m)):
+        expected = fillet_search._steepest(everything, fillet_search._terms(everything, radii_m))
+        got = fillet_search._steepest(points, fillet_search._terms(points, radii_m))
+        assert np.array_equal(got, expected)  # identity: the same least term at every F
+
+
+def test_uncovered_parts_with_a_cover_grown_once_are_the_parts_without_it() -> None:
+    legs = shapely.union_all([shapely.box(0.0, -10.0, 200.0, 10.0), shapely.box(-10.0, 0.0, 10.0, 200.0)])
+    corners = [shapely.Point(15.0, 15.0).buffer(8.0), shapely.Point(12.0, 30.0).buffer(5.0)]
+    cover = straights_cover(legs)
+    for corner in corners:
+        shared = uncovered_parts(corner, legs, cover=cover)  # the straights grown once for both corners
+        alone = uncovered_parts(corner, legs)
+        # identity: the very same parts, to the bit
+        assert list(shapely.to_wkb(shared)) == list(shapely.to_wkb(alone)) and len(alone) > 0
