@@ -82,8 +82,9 @@ def simplified_tracks(tracks: Sequence[FloatArray], tolerance_m: float) -> list[
     lengths = [len(track) for track in tracks]
     lines = shapely.linestrings(np.concatenate(tracks), indices=np.repeat(np.arange(len(tracks)), lengths))
     simple = shapely.simplify(lines, tolerance_m, preserve_topology=False)
-    coordinates, index = shapely.get_coordinates(simple, return_index=True)
-    return np.split(np.asarray(coordinates, dtype=float), np.searchsorted(index, np.arange(1, len(tracks))))
+    coordinates = np.asarray(shapely.get_coordinates(simple), dtype=float)
+    ends = np.cumsum(shapely.get_num_coordinates(simple)).tolist()
+    return [coordinates[start:end] for start, end in zip([0, *ends[:-1]], ends, strict=True)]
 
 
 def _band_pieces(left: FloatArray, right: FloatArray, first: int, last: int) -> list[BaseGeometry]:

@@ -16,7 +16,10 @@ by less than a radian per piece (so its angle is read without ambiguity).
 
 :func:`sweep` gives every tracked point and the steering angle (the lateral offsets of the gear
 tracks are measured when first read); :func:`main_gear_track` gives the main gear alone, at the
-same stations and with the same values, for a caller that needs nothing else.
+same stations and with the same values, for a caller that needs nothing else. :func:`plan_sweep`
+and :func:`swept_paths` split :func:`sweep` in two, so that many sweeps (a junction's turns, every
+aircraft of the fleet) are evaluated in one pass of whole-array operations, with the very values
+each sweep alone gives.
 
 Signs: alpha > 0 and steering > 0 in a left turn; offsets are positive to the left of travel.
 """
@@ -24,6 +27,7 @@ Signs: alpha > 0 and steering > 0 in a left turn; offsets are positive to the le
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 from functools import lru_cache
 
@@ -38,17 +42,17 @@ from geometry.errors import (
     RadiusTooSmallError,
 )
 from geometry.offsets import lateral_offset_m
-from geometry.path import CenterlinePath, standard_turn_path
+from geometry.path import CenterlinePath
 from geometry.primitives import Arc, FloatArray
 from geometry.sweep_pieces import (
-    IntArray,
     Pieces,
-    at_stations,
+    at_stations_of_many,
     chain_pieces,
-    peak_alpha_rad,
+    peak_alpha_on_segments_rad,
     sample_stations,
     stations_on_pieces,
 )
+from geometry.sweep_pieces import SweepPlan as SweepPlan  # plan_sweep's value, re-exported
 
 DEFAULT_CHORD_TOLERANCE_M = 0.003  # a track polyline stays within 3 mm of the exact curve
 MIN_CHORD_TOLERANCE_M = 1e-6  # finer tolerances only multiply stations without meaning
@@ -160,7 +164,9 @@ def main_gear_track(path: CenterlinePath, aircraft: DesignAircraft, *,
     >>> bool(np.array_equal(gear.main_gear_xy, sweep(path, plane).main_gear_xy))
     True
     """
-    return _sampled_frame(path, aircraft, chord_tolerance_m, initial_body_angle_rad)[0]
+    plan = plan_sweep(path, aircraft, chord_tolerance_m=chord_tolerance_m,
+                      initial_body_angle_rad=initial_body_angle_rad)
+    return _body_frames([plan])[0][0]
 
 
 def sweep(path: CenterlinePath, aircraft: DesignAircraft, *,
@@ -190,7 +196,24 @@ def sweep(path: CenterlinePath, aircraft: DesignAircraft, *,
     >>> round(swept.max_gear_deviation_m, 3)  # settled on the arc: 60 - sqrt(60^2 - 20^2)
     3.431
     """
-    return _swept_path(*_sampled_frame(path, aircraft, chord_tolerance_m, initial_body_angle_rad))
+    return swept_paths([plan_sweep(path, aircraft, chord_tolerance_m=chord_tolerance_m,
+                                   initial_body_angle_rad=initial_body_angle_rad)])[0]
+
+
+def plan_sweep(path: CenterlinePath, aircraft: DesignAircraft, *,
+               chord_tolerance_m: float = DEFAULT_CHORD_TOLERANCE_M,
+               initial_body_angle_rad: float = 0.0) -> SweepPlan:
+    """The stations :func:`sweep` samples, and what evaluating them needs; same arguments and errors."""
+    _check_chord_tolerance(chord_tolerance_m)
+    pieces = _chain_pieces(path, aircraft, initial_body_angle_rad)
+    station_m, which, local_m = sample_stations(pieces, _body_points(aircraft)[1], chord_tolerance_m)
+    return SweepPlan(path, aircraft, pieces, station_m, which, local_m)
+
+
+def swept_paths(plans: Sequence[SweepPlan]) -> list[SweptPath]:
+    """Every plan evaluated, all in one pass: the swept path of each, with the very values
+    :func:`sweep` gives for its path and aircraft at its stations."""
+    return [_swept_path(gear, basis, steering_rad) for gear, basis, steering_rad in _body_frames(plans)]
 
 
 def sweep_at_stations(path: CenterlinePath, aircraft: DesignAircraft, station_m: FloatArray, *,
@@ -205,7 +228,7 @@ def sweep_at_stations(path: CenterlinePath, aircraft: DesignAircraft, station_m:
         raise GeometryError(f"stations must lie between 0 and the path length {path.length_m:.3f} m")
     pieces = _chain_pieces(path, aircraft, initial_body_angle_rad)
     which, local_m = stations_on_pieces(pieces, stations)
-    return _swept_path(*_body_frame(path, aircraft, stations, pieces, which, local_m))
+    return swept_paths([SweepPlan(path, aircraft, pieces, stations, which, local_m)])[0]
 
 
 def steering_angle_rad(aircraft: DesignAircraft, body_angle_rad: FloatArray) -> FloatArray:
@@ -251,9 +274,12 @@ def min_radius_for_steering_limit(aircraft: DesignAircraft, turn_rad: float) -> 
 
 def _peak_steering_rad(aircraft: DesignAircraft, radius_m: float, turn_rad: float) -> float:
     lead_m = SETTLING_LENGTH_CMG * aircraft.cmg_m
-    path = standard_turn_path(radius_m, turn_rad, lead_m, lead_m)
+    # standard_turn_path(radius_m, turn_rad, lead_m, lead_m), as its segments' curvature and length
+    # (the arc's by Arc's own formulas): the path itself is not needed.
+    side = 1.0 if turn_rad > 0.0 else -1.0
+    segments = ((0.0, lead_m), (side / radius_m, radius_m * abs(turn_rad)), (0.0, lead_m))
     # alpha is monotone on each piece, so its extreme lies on a piece boundary.
-    peak_alpha = peak_alpha_rad(path, aircraft.cmg_m)
+    peak_alpha = peak_alpha_on_segments_rad(segments, aircraft.cmg_m)
     if peak_alpha is None:  # the aircraft would roll backwards: the radius is too small
         return _HALF_PI
     return float(steering_angle_rad(aircraft, np.array([peak_alpha]))[0])
@@ -302,28 +328,38 @@ def _body_points(aircraft: DesignAircraft) -> tuple[FloatArray, float]:
     return points, float(np.max(np.abs(points).sum(axis=1)))
 
 
-def _sampled_frame(path: CenterlinePath, aircraft: DesignAircraft, chord_tolerance_m: float,
-                   alpha0_rad: float) -> tuple[GearTrack, FloatArray]:
-    """The gear track and body frame at the stations :func:`sweep` samples (see :func:`_body_frame`)."""
-    _check_chord_tolerance(chord_tolerance_m)
-    pieces = _chain_pieces(path, aircraft, alpha0_rad)
-    station_m, which, local_m = sample_stations(pieces, _body_points(aircraft)[1], chord_tolerance_m)
-    return _body_frame(path, aircraft, station_m, pieces, which, local_m)
-
-
-def _body_frame(path: CenterlinePath, aircraft: DesignAircraft, station_m: FloatArray, pieces: Pieces,
-                which: IntArray, local_m: FloatArray) -> tuple[GearTrack, FloatArray]:
-    """The gear track at the given stations, and the body frame there: basis[0] forward
-    (cos, sin), basis[1] left (-sin, cos), shape (2, stations, 2)."""
-    alpha_rad, cockpit_xy, body_heading_rad = at_stations(pieces, which, local_m)
+def _body_frames(plans: Sequence[SweepPlan]) -> list[tuple[GearTrack, FloatArray, FloatArray]]:
+    """The gear track of each plan, its body frame (basis[0] forward (cos, sin), basis[1] left
+    (-sin, cos), shape (2, stations, 2)) and its steering angle. Every station of every plan is
+    evaluated together; each plan's arrays are then its own (copies, not views)."""
+    if not plans:
+        return []
+    counts = [len(plan.station_m) for plan in plans]
+    alpha_rad, cockpit_xy, body_heading_rad = at_stations_of_many(
+        [plan.pieces for plan in plans], [plan.which for plan in plans], [plan.local_m for plan in plans])
     body_heading_rad -= alpha_rad  # the path tangent's heading, turned into the body's
-    basis = np.empty((2, len(station_m), 2))
+    basis = np.empty((2, len(alpha_rad), 2))
     np.cos(body_heading_rad, out=basis[0, :, 0])
     np.sin(body_heading_rad, out=basis[0, :, 1])
     np.negative(basis[0, :, 1], out=basis[1, :, 0])
     basis[1, :, 1] = basis[0, :, 0]
-    main_gear_xy = cockpit_xy - aircraft.cmg_m * basis[0]
-    return GearTrack(path, aircraft, station_m, cockpit_xy, body_heading_rad, alpha_rad, main_gear_xy), basis
+    cmg_m = _per_station([plan.aircraft.cmg_m for plan in plans], counts)
+    main_gear_xy = cockpit_xy - cmg_m[:, np.newaxis] * basis[0]
+    steering_rad = _steering_within_right_angle_rad(
+        _per_station([plan.aircraft.wheelbase_m / plan.aircraft.cmg_m for plan in plans], counts), alpha_rad)
+    frames, start = [], 0
+    for plan, count in zip(plans, counts, strict=True):
+        rows = slice(start, start + count)
+        gear = GearTrack(plan.path, plan.aircraft, plan.station_m, cockpit_xy[rows].copy(),
+                         body_heading_rad[rows].copy(), alpha_rad[rows].copy(), main_gear_xy[rows].copy())
+        frames.append((gear, basis[:, rows], steering_rad[rows].copy()))
+        start += count
+    return frames
+
+
+def _per_station(values: list[float], counts: list[int]) -> FloatArray:
+    """Each plan's value repeated at each of its stations: one array for the whole batch."""
+    return np.repeat(np.array(values), counts)
 
 
 # The tracks built from body points, in _body_points order; the cockpit (last body point) is not
@@ -332,7 +368,7 @@ _TRACKS = ("main_gear_xy", "gear_left_edge_xy", "gear_right_edge_xy", "nose_gear
            "wingtip_left_xy", "wingtip_right_xy")
 
 
-def _swept_path(gear: GearTrack, basis: FloatArray) -> SweptPath:
+def _swept_path(gear: GearTrack, basis: FloatArray, steering_rad: FloatArray) -> SweptPath:
     aircraft, count = gear.aircraft, len(gear.station_m)
     # Every other tracked point at once, one small matrix product: (tracks, stations, 2), each
     # track a contiguous slice; the main gear (the body frame's origin) is the gear track's own.
@@ -344,14 +380,15 @@ def _swept_path(gear: GearTrack, basis: FloatArray) -> SweptPath:
     return SweptPath(
         path=gear.path, aircraft=aircraft, station_m=gear.station_m, cockpit_xy=gear.cockpit_xy,
         body_heading_rad=gear.body_heading_rad, body_angle_rad=gear.body_angle_rad,
-        steering_rad=_steering_within_right_angle_rad(aircraft, gear.body_angle_rad),
+        steering_rad=steering_rad,
         **dict(zip(_TRACKS, tracks, strict=True)))
 
 
-def _steering_within_right_angle_rad(aircraft: DesignAircraft, body_angle_rad: FloatArray) -> FloatArray:
+def _steering_within_right_angle_rad(wheelbase_over_cmg: FloatArray,
+                                     body_angle_rad: FloatArray) -> FloatArray:
     """:func:`steering_angle_rad` where |alpha| < 90 degrees (every body angle a sweep reaches):
     d cos(alpha) > 0 there, so atan2(WB sin(alpha), d cos(alpha)) = atan((WB / d) tan(alpha)),
-    two transcendental calls instead of three."""
+    two transcendental calls instead of three. ``wheelbase_over_cmg``: WB / d at each station."""
     steering = np.tan(body_angle_rad)
-    steering *= aircraft.wheelbase_m / aircraft.cmg_m
+    steering *= wheelbase_over_cmg
     return np.asarray(np.arctan(steering, out=steering), dtype=float)

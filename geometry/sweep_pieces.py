@@ -4,18 +4,21 @@ Internal to :mod:`geometry.sweep` (its module docstring states the model and the
 A path is cut into pieces of constant curvature, short enough that the flow coefficients stay of
 order one and alpha moves by less than a radian per piece. Everything per piece (a handful of
 pieces per path) is plain Python floats; everything per station is a few whole-array numpy
-operations, so a sweep costs a fixed number of numpy calls however many stations it has.
+operations, so a sweep costs a fixed number of numpy calls however many stations it has; and
+several sweeps (a :class:`SweepPlan` each) share those calls (:func:`at_stations_of_many`), every
+station still evaluated on its own, with the values it gets alone.
 """
 
 from __future__ import annotations
 
 import math
-from collections.abc import Callable
+from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass
 
 import numpy as np
 import numpy.typing as npt
 
+from geometry.aircraft import DesignAircraft
 from geometry.path import CenterlinePath
 from geometry.primitives import FloatArray, Segment, Straight
 
@@ -42,6 +45,32 @@ class Pieces:
     path_length_m: float
     table: FloatArray        # shape (pieces, 12)
     all_hyperbolic: bool     # m2 > 0 on every piece (straights, arcs wider than d): the usual case
+
+
+@dataclass(frozen=True, slots=True, eq=False)
+class SweepPlan:
+    """One sweep before it is evaluated: the path cut into pieces with alpha chained along them, and
+    the cockpit stations, each with its piece and its distance into that piece."""
+
+    path: CenterlinePath
+    aircraft: DesignAircraft
+    pieces: Pieces
+    station_m: FloatArray
+    which: IntArray
+    local_m: FloatArray
+
+    def from_station(self, first_m: float) -> SweepPlan:
+        """The plan without its stations before ``first_m``: every value it gives is the whole
+        plan's own at the stations kept (each station is evaluated on its own)."""
+        keep = self.station_m >= first_m
+        first = int(np.argmax(keep))
+        rows: slice | np.ndarray = keep
+        if keep[first:].all():  # stations increase along the path: the kept ones are a tail
+            if first == 0:
+                return self
+            rows = slice(first, None)
+        return SweepPlan(self.path, self.aircraft, self.pieces, self.station_m[rows], self.which[rows],
+                         self.local_m[rows])
 
 
 def piece_limit_m(curvature_per_m: float, cmg_m: float) -> float:
@@ -107,15 +136,23 @@ def peak_alpha_rad(path: CenterlinePath, cmg_m: float) -> float | None:
     """The largest |alpha| at any piece boundary of ``path`` from an aligned start, exactly as
     :func:`chain_pieces` would find it (the same pieces and arithmetic, without the table), or
     None where alpha reaches 90 degrees (the aircraft would roll backwards)."""
+    segments = [(segment.curvature_per_m, segment.length_m) for segment in path.segments]
+    return peak_alpha_on_segments_rad(segments, cmg_m)
+
+
+def peak_alpha_on_segments_rad(segments: Iterable[tuple[float, float]], cmg_m: float) -> float | None:
+    """:func:`peak_alpha_rad` of a path given by the (curvature, length) of its segments, in order:
+    all it reads of them, so a caller can skip building the path."""
     alpha, peak = 0.0, 0.0
-    for segment in path.segments:
-        kappa = segment.curvature_per_m
-        count, _, (_, _, _, c, g) = _segment_pieces(kappa, segment.length_m, cmg_m)
-        for _ in range(count):
-            alpha = _piece_end_alpha(alpha, kappa, cmg_m, c, g)[0]
-            if abs(alpha) >= HALF_PI:
+    for kappa, length_m in segments:
+        count, _, (_, _, _, c, g) = _segment_pieces(kappa, length_m, cmg_m)
+        for _ in range(count):  # _piece_end_alpha, written out: this loop is the steering bisection's
+            rate_half, cos_half = (kappa - math.sin(alpha) / cmg_m) / 2.0, math.cos(alpha) / (2.0 * cmg_m)
+            alpha = alpha + 2.0 * math.atan2(g * rate_half, c + g * cos_half)
+            magnitude = abs(alpha)
+            if magnitude >= HALF_PI:
                 return None
-            peak = max(peak, abs(alpha))
+            peak = max(peak, magnitude)
     return peak
 
 
@@ -204,7 +241,26 @@ def stations_on_pieces(pieces: Pieces, station_m: FloatArray) -> tuple[IntArray,
 def at_stations(pieces: Pieces, which: IntArray,
                 local_m: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
     """Body angle alpha, cockpit point (n, 2) and path heading at stations given by their piece
-    and distance into it, from the closed form and the piece's start.
+    and distance into it: :func:`at_stations_of_many` of one path."""
+    return at_stations_of_many([pieces], [which], [local_m])
+
+
+def at_stations_of_many(pieces: Sequence[Pieces], which: Sequence[IntArray],
+                        local_m: Sequence[FloatArray]) -> tuple[FloatArray, FloatArray, FloatArray]:
+    """:func:`at_stations` of several paths at once, their stations one after the other: every
+    station is evaluated on its own, so each gets the very values it gets alone."""
+    if len(pieces) == 1:
+        return _at_stations(pieces[0].table, pieces[0].all_hyperbolic, which[0], local_m[0])
+    firsts = np.cumsum([0] + [len(each.starts_m) for each in pieces[:-1]])
+    rows = np.concatenate(which) + np.repeat(firsts, [len(each) for each in which])
+    return _at_stations(np.concatenate([each.table for each in pieces]),
+                        all(each.all_hyperbolic for each in pieces), rows, np.concatenate(local_m))
+
+
+def _at_stations(table: FloatArray, all_hyperbolic: bool, which: IntArray,
+                 local_m: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
+    """Alpha, cockpit and heading at stations given by their row of the piece table ``table`` and
+    their distance into that piece, from the closed form and the piece's start.
 
     g = sinh(k s)/k (m2 = k^2 > 0), sin(k s)/k (m2 = -k^2 < 0) or s (m2 = 0): written with 1/k
     per piece, so there is no 0/0 at a piece start. The cockpit moves by the chord of its piece:
@@ -213,9 +269,9 @@ def at_stations(pieces: Pieces, which: IntArray,
     arithmetic, in place where an intermediate is not needed again.
     """
     (alpha0, m2, root, inverse_root, rate_half, cos_half, x0, y0, h0, half_kappa, chord_scale,
-     straight) = pieces.table.take(which, axis=0).T
+     straight) = table.take(which, axis=0).T
     angle = root * local_m
-    if pieces.all_hyperbolic:
+    if all_hyperbolic:
         c, g = np.cosh(angle), np.sinh(angle)
         g *= inverse_root
     else:

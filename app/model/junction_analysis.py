@@ -8,8 +8,7 @@ from __future__ import annotations
 import math
 from collections import defaultdict
 from collections.abc import Hashable, Sequence
-from dataclasses import dataclass, fields, replace
-from typing import Any
+from dataclasses import dataclass, replace
 
 import numpy as np
 import shapely
@@ -22,12 +21,12 @@ from app.model.junction_tracks import junction_tracks
 from app.model.recent_values import RecentValues, corner_key, turn_key
 from app.model.results import AircraftTracks, ArcRecord, FilletResult, JunctionResult, MovementResult
 from geometry.errors import GeometryError
-from geometry.fillets import Fillet, fit_fillet, uncovered_parts
+from geometry.fillets import Fillet, fit_fillet, straights_cover, uncovered_parts
 from geometry.movements import Movement, corner_of, junction_movements
 from geometry.network import Junction
 from geometry.pavement import Polygonal, required_movement_areas
 from geometry.primitives import Arc
-from geometry.sweep import SweptPath, sweep
+from geometry.sweep import SweepPlan, SweptPath, plan_sweep, swept_paths
 from geometry.turns import movement_path, turn_arc
 
 LEAD_IN_IN_CMG = 1.5      # the aircraft arrives aligned this far before the arc (or the leg's length)
@@ -50,6 +49,7 @@ class SweptTurn:
 
 
 CornerFit = tuple[FilletResult | None, str | None]  # the fillet (None: none needed), the problem met
+PlannedTurn = tuple[SweptTurn, tuple[SweepPlan, ...]]  # a turn before its sweeps are evaluated, and them
 
 
 @dataclass(frozen=True, slots=True, eq=False)
@@ -76,24 +76,12 @@ def _arc_record(arc: Arc) -> ArcRecord:
     return ArcRecord((cx, cy), arc.radius_m, start, end)
 
 
-_SWEPT_FIELDS = tuple(field.name for field in fields(SweptPath))
-
-
-def _once_gear_is_on_path(swept: SweptPath) -> SweptPath:
+def _once_gear_is_on_path(plan: SweepPlan) -> SweepPlan:
     """The stations from which the main gear, CMG behind the cockpit, has reached the path's start.
 
     Before that the gear rolls straight, aligned, on whatever pavement leads to this movement (the
     previous junction, or the leg's continuation), which is not this junction's to provide."""
-    keep = swept.station_m >= min(swept.aircraft.cmg_m, swept.station_m[-1])
-    first = int(np.argmax(keep))
-    rows: slice | np.ndarray = keep
-    if keep[first:].all():  # stations increase along the path: the kept ones are a tail, kept as views
-        if first == 0:
-            return swept
-        rows = slice(first, None)
-    arrays: dict[str, Any] = {name: value[rows] for name in _SWEPT_FIELDS
-                              if isinstance(value := getattr(swept, name), np.ndarray)}
-    return replace(swept, **arrays)
+    return plan.from_station(min(plan.aircraft.cmg_m, plan.station_m[-1]))
 
 
 def _single_corner(movement: Movement, junction: Junction) -> str | None:
@@ -108,8 +96,9 @@ def _radius_for(movement: Movement, corner_key: str | None, inputs: JunctionInpu
     return default_radius_m(movement.turn_rad, inputs.context)
 
 
-def _compute_turn(movement: Movement, inputs: JunctionInputs, corner_key: str | None,
-                  radius_m: float) -> SweptTurn:
+def _planned_turn(movement: Movement, inputs: JunctionInputs, corner_key: str | None,
+                  radius_m: float) -> PlannedTurn:
+    """The turn without its swept paths yet, and the sweeps that give them (none for a problem)."""
     junction = inputs.junction
     try:
         arc = turn_arc(junction.point, movement.arrival_heading_rad, movement.departure_heading_rad, radius_m)
@@ -117,10 +106,17 @@ def _compute_turn(movement: Movement, inputs: JunctionInputs, corner_key: str | 
         lead_in = max(0.0, min(movement.from_leg.length_m - arc.tangent_length_m, LEAD_IN_IN_CMG * cmg_m))
         lead_out = max(0.0, min(movement.to_leg.length_m - arc.tangent_length_m, LEAD_OUT_IN_CMG * cmg_m))
         path = movement_path(movement, junction.point, radius_m, lead_in, lead_out)
-        swept = tuple(_once_gear_is_on_path(sweep(path, aircraft)) for aircraft in inputs.context.fleet)
+        plans = tuple(_once_gear_is_on_path(plan_sweep(path, aircraft)) for aircraft in inputs.context.fleet)
     except GeometryError as error:
-        return SweptTurn(movement, corner_key, radius_m, None, (), None, str(error))
-    return SweptTurn(movement, corner_key, radius_m, arc.arc, swept, None, None)
+        return SweptTurn(movement, corner_key, radius_m, None, (), None, str(error)), ()
+    return SweptTurn(movement, corner_key, radius_m, arc.arc, (), None, None), plans
+
+
+def _with_swept_paths(planned: Sequence[PlannedTurn]) -> list[SweptTurn]:
+    """The planned turns with their swept paths, the sweeps of all of them evaluated together."""
+    paths = iter(swept_paths([plan for _, plans in planned for plan in plans]))
+    return [replace(turn, swept=tuple(next(paths) for _ in plans)) if plans else turn
+            for turn, plans in planned]
 
 
 def _swept_turns(turns: Sequence[Movement], inputs: JunctionInputs) -> list[SweptTurn]:
@@ -128,7 +124,7 @@ def _swept_turns(turns: Sequence[Movement], inputs: JunctionInputs) -> list[Swep
     inputs, see app/model/recent_values.py) are taken from there, the others computed together."""
     memory, context = inputs.turns, inputs.context
     found: list[SweptTurn | None] = []
-    missing: list[tuple[int, Hashable, SweptTurn]] = []
+    missing: list[tuple[int, Hashable, PlannedTurn]] = []
     for movement in turns:
         corner_key = _single_corner(movement, inputs.junction)
         radius_m = _radius_for(movement, corner_key, inputs)
@@ -137,9 +133,9 @@ def _swept_turns(turns: Sequence[Movement], inputs: JunctionInputs) -> list[Swep
         if known is not None:
             found.append(replace(known, movement=movement, corner_key=corner_key))
             continue
-        missing.append((len(found), key, _compute_turn(movement, inputs, corner_key, radius_m)))
+        missing.append((len(found), key, _planned_turn(movement, inputs, corner_key, radius_m)))
         found.append(None)
-    paved = _with_areas([one for _, _, one in missing], inputs)
+    paved = _with_areas(_with_swept_paths([one for _, _, one in missing]), inputs)
     for (index, key, _), one in zip(missing, paved, strict=True):
         found[index] = one
         if memory is not None:
@@ -179,9 +175,10 @@ def _with_own_area(one: SweptTurn, rules: str) -> SweptTurn:
 
 
 def _fit_corner(key: str, computed: list[SweptTurn], required: BaseGeometry, inputs: JunctionInputs,
-                local_straights: BaseGeometry) -> CornerFit:
+                local_straights: BaseGeometry, cover: BaseGeometry) -> CornerFit:
     """The corner's fillet for ``required``, the union of its turns' required areas; a corner
-    remembered in ``inputs.fillets`` with equal inputs is taken from there."""
+    remembered in ``inputs.fillets`` with equal inputs is taken from there. ``cover``:
+    ``straights_cover(local_straights)``, grown once for all the junction's corners."""
     first = computed[0]
     corner = corner_of(first.movement, inputs.junction)
     leg_a, leg_b = corner.legs[0], corner.legs[-1]
@@ -190,7 +187,7 @@ def _fit_corner(key: str, computed: list[SweptTurn], required: BaseGeometry, inp
     geometry = (inputs.junction.point, leg_a.heading_rad, leg_b.heading_rad, widths[leg_a.line_id],
                 widths[leg_b.line_id], first.arc.center, first.arc.radius_m)
     try:
-        uncovered = uncovered_parts(required, local_straights)
+        uncovered = uncovered_parts(required, local_straights, cover=cover)
         memory_key = corner_key(key, geometry, required, uncovered)
         known = inputs.fillets.get(memory_key) if inputs.fillets is not None else None
         if known is not None:
@@ -260,7 +257,8 @@ def _edge_of(buildable: BaseGeometry) -> EdgeSegments:
 def analyze_junction(inputs: JunctionInputs) -> tuple[JunctionResult, tuple[str, ...]]:
     """The junction's result and the problems met (corners whose fillet could not be fitted)."""
     junction = inputs.junction
-    turns = [movement for movement in junction_movements(junction)
+    movements = junction_movements(junction)
+    turns = [movement for movement in movements
              if movement.kind == "turn" and movement.key not in inputs.excluded]
     computed = _swept_turns(turns, inputs)
     usable = [one for one in computed if one.area is not None]
@@ -278,8 +276,9 @@ def analyze_junction(inputs: JunctionInputs) -> tuple[JunctionResult, tuple[str,
     bounds = required.buffer(CLIP_MARGIN_M).envelope if usable else Polygon()
     local_straights = inputs.straights.intersection(bounds) if usable else Polygon()
     fillets, problems = [], []
+    cover = straights_cover(local_straights) if corner_required else Polygon()
     for key, corner_area in corner_required.items():
-        fillet, problem = _fit_corner(key, by_corner[key], corner_area, inputs, local_straights)
+        fillet, problem = _fit_corner(key, by_corner[key], corner_area, inputs, local_straights, cover)
         if fillet is not None:
             fillets.append(fillet)
         if problem is not None:  # no fillet of the usual form: the exact required area is what to build
@@ -293,8 +292,7 @@ def analyze_junction(inputs: JunctionInputs) -> tuple[JunctionResult, tuple[str,
         shapely.prepare(buildable)  # every tyre-edge point is tested for being inside it
         segments = _edge_of(buildable)
     by_key = _movement_results(computed, inputs, buildable, segments)
-    all_results = tuple(by_key.get(m.key) or _straight_movement(m, inputs)
-                        for m in junction_movements(junction))
+    all_results = tuple(by_key.get(m.key) or _straight_movement(m, inputs) for m in movements)
     result = JunctionResult(junction.id, junction.point, junction.kind, junction.line_ids, all_results,
                             tuple(fillets), required, buildable, float(required.area), float(buildable.area))
     return result, tuple(problems)

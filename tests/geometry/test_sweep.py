@@ -28,9 +28,11 @@ from geometry.sweep import (
     SweptPath,
     main_gear_track,
     min_radius_for_steering_limit,
+    plan_sweep,
     steering_limited_radius_steady_state,
     sweep,
     sweep_at_stations,
+    swept_paths,
 )
 from tests.geometry.scipy_reference import reference_tracks
 
@@ -158,6 +160,25 @@ def test_the_main_gear_track_alone_is_the_sweeps_own(case: str) -> None:
     for name in ("station_m", "cockpit_xy", "body_heading_rad", "body_angle_rad", "main_gear_xy"):
         # check value: identity
         assert np.array_equal(getattr(gear, name), getattr(swept, name)), name
+
+
+def test_sweeps_evaluated_together_are_each_sweeps_own() -> None:
+    aircraft = (demo_aircraft(), demo_aircraft(cmg_m=20.0, wheelbase_m=18.0), demo_aircraft(cmg_m=40.0))
+    cases = [REFERENCE_CASES[case] for case in ("left U-turn", "S-curve", "short turn, R < CMG", "R = CMG")]
+    requests = [(build_path(pieces, start=(3.0, 4.0), heading_rad=0.3), plane, alpha0)
+                for pieces, alpha0 in cases for plane in aircraft]
+    cut_m = [0.0, 25.0, 300.0]  # from a station on: every station is evaluated on its own
+    plans = [plan_sweep(path, plane, initial_body_angle_rad=alpha0).from_station(cut_m[index % 3])
+             for index, (path, plane, alpha0) in enumerate(requests)]
+    for index, (together, (path, plane, alpha0)) in enumerate(zip(swept_paths(plans), requests, strict=True)):
+        alone = sweep(path, plane, initial_body_angle_rad=alpha0)
+        keep = alone.station_m >= cut_m[index % 3]
+        for field in fields(SweptPath):
+            value = getattr(alone, field.name)
+            if isinstance(value, np.ndarray):
+                # check value: identity (the same arithmetic on every station, bit for bit)
+                assert getattr(together, field.name).tobytes() == value[keep].tobytes(), field.name
+    assert swept_paths([]) == []  # identity: nothing to evaluate
 
 
 def test_the_main_gear_track_refuses_what_the_sweep_refuses() -> None:

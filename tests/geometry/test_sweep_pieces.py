@@ -14,6 +14,7 @@ from geometry.primitives import Arc, Straight
 from geometry.sweep_pieces import (
     at_stations,
     chain_pieces,
+    peak_alpha_on_segments_rad,
     peak_alpha_rad,
     sample_stations,
     stations_on_pieces,
@@ -79,6 +80,9 @@ def test_the_peak_alpha_is_the_chained_pieces_own(path: CenterlinePath) -> None:
     pieces = chain_pieces(path, CMG_M, 0.0, _never)
     # identity: the same pieces and arithmetic, so the very same largest |alpha|
     assert peak_alpha_rad(path, CMG_M) == max(abs(alpha) for alpha in pieces.alphas_rad)
+    segments = [(segment.curvature_per_m, segment.length_m) for segment in path.segments]
+    # identity: all peak_alpha_rad reads of a path
+    assert peak_alpha_on_segments_rad(segments, CMG_M) == peak_alpha_rad(path, CMG_M)
 
 
 def test_no_peak_alpha_where_the_gear_would_roll_backwards() -> None:
