@@ -21,6 +21,7 @@ from shapely.geometry.base import BaseGeometry
 
 from app.model.elements import Runway, Vertex
 from app.model.results import JunctionResult, LayoutResult
+from app.model.unions import POLYGON_TYPE_ID, with_gap_rows
 
 FloatArray = npt.NDArray[np.float64]
 
@@ -114,9 +115,13 @@ def rings_xy(geometry: BaseGeometry | None) -> FloatArray:
     """Every polygon ring (exteriors and holes) of ``geometry`` joined by NaN rows."""
     if geometry is None or geometry.is_empty:
         return np.empty((0, 2))
-    polygons = [part for part in shapely.get_parts(geometry) if part.geom_type == "Polygon"]
-    rings = shapely.get_rings(np.asarray(polygons, dtype=object)) if polygons else []
-    return join_pieces(shapely.get_coordinates(ring) for ring in rings)
+    parts = shapely.get_parts(geometry)
+    rings = shapely.get_rings(parts[shapely.get_type_id(parts) == POLYGON_TYPE_ID])
+    xy, ring_of = shapely.get_coordinates(rings, return_index=True)
+    if not len(xy):
+        return np.empty((0, 2))
+    joined, _ = with_gap_rows(xy, ring_of[1:] != ring_of[:-1])
+    return joined
 
 
 @dataclass(frozen=True, slots=True, eq=False)

@@ -173,22 +173,40 @@ def _edges_xy(geometry: BaseGeometry, box: Bounds | None) -> FloatArray:
     if len(xy) < 2:
         return np.empty((0, 2))
     new_ring = ring_of[1:] != ring_of[:-1]     # no segment joins the last point of a ring to the next
-    on_border = np.zeros(len(xy) - 1, dtype=bool)
     if box is not None:
-        sides = np.zeros(len(xy), dtype=np.int8)  # a bit for each side of the box a point lies on
-        for bit, (axis, value) in enumerate(((0, box[0]), (1, box[1]), (0, box[2]), (1, box[3]))):
-            sides |= (np.abs(xy[:, axis] - value) <= BORDER_TOLERANCE_M).astype(np.int8) << bit
-        on_border = ((sides[:-1] & sides[1:]) != 0) & ~new_ring
-    breaks = on_border | new_ring
-    if not on_border.any():
-        return np.insert(xy, np.flatnonzero(breaks) + 1, np.nan, axis=0)
-    # A point between two breaks (or a break and a ring's end) draws nothing: leave it out.
+        # which of the box's sides (xmin, ymin, xmax, ymax) each point lies on
+        on_side = np.abs(xy[:, (0, 1, 0, 1)] - box) <= BORDER_TOLERANCE_M
+        on_border = (on_side[:-1] & on_side[1:]).any(axis=1) & ~new_ring
+        if on_border.any():
+            return _without_border(xy, on_border | new_ring)
+    drawn, _ = with_gap_rows(xy, new_ring)
+    return drawn
+
+
+def with_gap_rows(xy: FloatArray, breaks: npt.NDArray[np.bool_]) -> tuple[FloatArray, npt.NDArray[np.intp]]:
+    """``xy`` with a NaN row after each point ``i`` where ``breaks[i]`` (one fewer than the points),
+    and the rows the points went to (what ``np.insert`` does, in a fraction of its time)."""
+    if not len(xy):
+        return np.empty((0, 2)), np.empty(0, dtype=np.intp)
+    shift = np.zeros(len(xy), dtype=np.intp)
+    np.cumsum(breaks, out=shift[1:])
+    rows = np.arange(len(xy)) + shift
+    drawn = np.full((len(xy) + int(shift[-1]), 2), np.nan)
+    drawn[rows] = xy
+    return drawn, rows
+
+
+def _without_border(xy: FloatArray, breaks: npt.NDArray[np.bool_]) -> FloatArray:
+    """:func:`with_gap_rows` less the points between two breaks (or a break and a ring's end), which
+    draw nothing, and less doubled, leading and trailing NaN rows."""
     lonely = np.concatenate(([True], breaks)) & np.concatenate((breaks, [True]))
-    kept = np.insert(~lonely, np.flatnonzero(breaks) + 1, True)
-    drawn = np.insert(xy, np.flatnonzero(breaks) + 1, np.nan, axis=0)[kept]
+    drawn, rows = with_gap_rows(xy, breaks)
+    kept = np.ones(len(drawn), dtype=bool)
+    kept[rows] = ~lonely
+    drawn = np.compress(kept, drawn, axis=0)
     gap = np.isnan(drawn[:, 0])
     repeated = np.concatenate(([True], gap[1:] & gap[:-1])) & gap  # leading and doubled NaN rows
-    drawn = drawn[~repeated]
+    drawn = np.compress(~repeated, drawn, axis=0)
     trimmed: FloatArray = drawn[:-1] if len(drawn) and np.isnan(drawn[-1, 0]) else drawn
     return trimmed
 

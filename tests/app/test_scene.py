@@ -177,3 +177,12 @@ def test_a_moved_line_is_the_only_new_part_of_its_centerline_style() -> None:
     assert after.parts[0] is before.parts[0]  # identity: the unmoved line hands over its very array
     assert after.parts[1] is not before.parts[1]  # identity: the moved line is drawn anew
     assert np.array_equal(after.xy, join_pieces(after.parts), equal_nan=True)  # identity: xy joins the parts
+
+
+def test_rings_are_the_coordinates_of_each_polygon_ring_in_order() -> None:
+    square = shapely.Polygon([(0, 0), (10, 0), (10, 10), (0, 10)], [[(2, 2), (4, 2), (4, 4)]])
+    other = shapely.box(20, 20, 30, 30)
+    mixed = shapely.GeometryCollection([square, shapely.LineString([(0, 0), (5, 5)]), other])
+    rings = [shapely.get_coordinates(ring) for ring in shapely.get_rings(np.array([square, other]))]
+    # identity: every ring of the polygons (the line left out), joined as join_pieces joins them
+    assert np.array_equal(rings_xy(mixed), join_pieces(rings), equal_nan=True)

@@ -18,7 +18,7 @@ from app.model.analysis import LayoutAnalyzer
 from app.model.edits import move_vertex
 from app.model.results import LayoutResult
 from app.model.tile_clips import changed_boxes
-from app.model.unions import MAX_TILES_PER_SIDE, TiledGeometry, TiledUnion, TileGrid
+from app.model.unions import MAX_TILES_PER_SIDE, TiledGeometry, TiledUnion, TileGrid, with_gap_rows
 from geometry.pavement import straight_pavement
 
 SAMPLES = sorted((Path(__file__).resolve().parents[2] / "sample_layouts").glob("*.json"))
@@ -229,3 +229,14 @@ def test_a_long_line_dragged_at_one_vertex_is_clipped_again_only_near_it() -> No
     # second vertex before it to the second after it change: 2 km, 40 tiles a row, on 2 rows.
     assert clipped[-1] <= 2 * (2000 // 50 + 2) < clipped[0] / 2
     assert_tiles_as_fresh(union, {"line": pavement_of(points)})
+
+
+def test_gap_rows_go_where_numpy_insert_puts_them() -> None:
+    rng = np.random.default_rng(11)
+    xy = rng.random((40, 2))
+    breaks = rng.random(39) < 0.3
+    drawn, rows = with_gap_rows(xy, breaks)
+    # identity: the same array as np.insert of a NaN row after every break
+    assert np.array_equal(drawn, np.insert(xy, np.flatnonzero(breaks) + 1, np.nan, axis=0), equal_nan=True)
+    # identity: each point went to the row returned for it
+    assert np.array_equal(drawn[rows], xy)

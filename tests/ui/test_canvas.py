@@ -81,6 +81,17 @@ def test_only_changed_layers_are_redrawn(make_window) -> None:  # type: ignore[n
     assert redrawn == {"centerlines", "objects"}  # objects: the clearance zones follow the lines
 
 
+def test_symbol_sets_without_points_are_hidden(make_window) -> None:  # type: ignore[no-untyped-def]
+    window = make_window(demo_layout())
+    handles, overlay = window.canvas.handles, window.canvas.overlay
+    for scatter in handles._scatters.values():
+        # invariant: a handle style is shown exactly when it has points (an empty one only costs a paint)
+        assert scatter.isVisibleTo(handles) == (len(scatter.data) > 0)
+    for scatter in (overlay.sketch_points, overlay.selection_vertex, overlay.snap_mark):
+        # invariant: no overlay marks before anything is drawn, selected or snapped
+        assert not scatter.isVisible()
+
+
 def test_middle_button_pans_without_editing(make_window, qtbot) -> None:  # type: ignore[no-untyped-def]
     window = make_window(demo_layout())
     before = window.canvas.view_box.viewRange()

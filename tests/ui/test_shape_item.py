@@ -4,10 +4,11 @@ from __future__ import annotations
 
 import numpy as np
 import pyqtgraph as pg
-from PySide6 import QtWidgets
+import pytest
+from PySide6 import QtGui, QtWidgets
 
 from app.model.scene import join_pieces
-from app.ui.items.shape_item import ShapeItem
+from app.ui.items.shape_item import ShapeItem, _path_of
 
 
 def arc(radius_m: float, count: int) -> np.ndarray:
@@ -58,3 +59,22 @@ def test_the_bounds_hold_the_exact_outline(qtbot) -> None:  # type: ignore[no-un
     item.set_parts(())
     # check value: identity
     assert not item.has_content() and item.boundingRect().isEmpty()
+
+
+def elements(path: QtGui.QPainterPath) -> list[tuple[object, float, float]]:
+    found = (path.elementAt(i) for i in range(path.elementCount()))
+    return [(element.type, element.x, element.y) for element in found]
+
+
+@pytest.mark.parametrize("lengths", [(300, 120, 2), (64, 64), (5, 5, 5), (200, 1, 200), (1,)])
+def test_a_part_gives_the_elements_pyqtgraph_gives_however_it_is_built(lengths: tuple[int, ...]) -> None:
+    rng = np.random.default_rng(3)
+    points = rng.random((sum(lengths), 2)) * 1000.0
+    connect = np.ones(len(points), dtype=bool)
+    connect[np.cumsum(lengths) - 1] = False
+    expected = pg.arrayToQPath(np.ascontiguousarray(points[:, 0]), np.ascontiguousarray(points[:, 1]),
+                               connect=connect.astype(np.int32), finiteCheck=False)
+    # identity: long pieces are added as polygons, short ones and lone points through pyqtgraph
+    assert elements(_path_of(points, connect)) == elements(expected)
+    # identity: the same fill rule (even-odd: holes stay open)
+    assert _path_of(points, connect).fillRule() == expected.fillRule()

@@ -38,14 +38,21 @@ def thinned_polylines(xy: FloatArray, tolerance_m: float) -> tuple[FloatArray, B
         connect = np.ones(count, dtype=bool)
         connect[gaps[gaps > 0] - 1] = False
         connect[-1:] = False
-        return (xy, connect) if len(gaps) == 0 else (xy[~is_gap], connect[~is_gap])
-    lengths = np.diff(np.concatenate(([-1], gaps, [count]))) - 1
+        if len(gaps) == 0:
+            return xy, connect
+        return np.compress(~is_gap, xy, axis=0), np.compress(~is_gap, connect)
+    lengths = np.diff(gaps, prepend=-1, append=count) - 1  # points of each piece
     drawable = lengths >= 2
-    row_piece = np.repeat(np.arange(len(lengths)), lengths + 1)[:count]  # a piece and the gap after it
-    keep = drawable[row_piece]
-    keep[gaps] = False
-    piece = np.repeat(np.arange(int(drawable.sum())), lengths[drawable])
-    lines = shapely.linestrings(xy[keep], indices=piece)
+    if drawable.all():
+        kept_xy = np.compress(~is_gap, xy, axis=0) if len(gaps) else xy
+        piece = np.repeat(np.arange(len(lengths)), lengths)
+    else:
+        row_piece = np.repeat(np.arange(len(lengths)), lengths + 1)[:count]  # a piece and the gap after it
+        keep = drawable[row_piece]
+        keep[gaps] = False
+        kept_xy = np.compress(keep, xy, axis=0)  # (a boolean index of rows took several times longer)
+        piece = np.repeat(np.arange(int(drawable.sum())), lengths[drawable])
+    lines = shapely.linestrings(kept_xy, indices=piece)
     thinned = shapely.simplify(lines, tolerance_m, preserve_topology=False)
     points, piece = shapely.get_coordinates(thinned, return_index=True)
     connect = np.zeros(len(points), dtype=bool)

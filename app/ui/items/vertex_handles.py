@@ -48,9 +48,12 @@ class VertexHandles(pg.GraphicsObject):
                     np.array_equal(shown[0], xy)):
                 continue
             self.prepareGeometryChange()  # the bounds are the scatters'
-            self._scatter(style_key).setData(
+            scatter = self._scatter(style_key)
+            scatter.setData(
                 pos=xy, pxMode=True, symbol=style.look(style_key).symbol, size=style.look(style_key).size,
                 pen=style.shared_pen(style_key, theme), brush=style.shared_brush(style_key, theme))
+            if scatter.isVisibleTo(self) != bool(len(xy)):
+                scatter.setVisible(bool(len(xy)))  # an empty scatter still cost pyqtgraph ~0.3 ms a paint
             self._shown[style_key] = (xy.copy(), theme)
 
     def _scatter(self, style_key: str) -> PassiveScatter:
