@@ -166,7 +166,7 @@ def main_gear_track(path: CenterlinePath, aircraft: DesignAircraft, *,
     """
     plan = plan_sweep(path, aircraft, chord_tolerance_m=chord_tolerance_m,
                       initial_body_angle_rad=initial_body_angle_rad)
-    return _body_frames([plan])[0][0]
+    return _body_frames([plan], with_steering=False)[0][0]
 
 
 def sweep(path: CenterlinePath, aircraft: DesignAircraft, *,
@@ -328,10 +328,12 @@ def _body_points(aircraft: DesignAircraft) -> tuple[FloatArray, float]:
     return points, float(np.max(np.abs(points).sum(axis=1)))
 
 
-def _body_frames(plans: Sequence[SweepPlan]) -> list[tuple[GearTrack, FloatArray, FloatArray]]:
+def _body_frames(plans: Sequence[SweepPlan], *,
+                 with_steering: bool = True) -> list[tuple[GearTrack, FloatArray, FloatArray]]:
     """The gear track of each plan, its body frame (basis[0] forward (cos, sin), basis[1] left
-    (-sin, cos), shape (2, stations, 2)) and its steering angle. Every station of every plan is
-    evaluated together; each plan's arrays are then its own (copies, not views)."""
+    (-sin, cos), shape (2, stations, 2)) and its steering angle (empty without ``with_steering``).
+    Every station of every plan is evaluated together; each plan's arrays are then its own
+    (copies, not views, when there are several plans)."""
     if not plans:
         return []
     counts = [len(plan.station_m) for plan in plans]
@@ -344,9 +346,14 @@ def _body_frames(plans: Sequence[SweepPlan]) -> list[tuple[GearTrack, FloatArray
     np.negative(basis[0, :, 1], out=basis[1, :, 0])
     basis[1, :, 1] = basis[0, :, 0]
     cmg_m = _per_station([plan.aircraft.cmg_m for plan in plans], counts)
-    main_gear_xy = cockpit_xy - cmg_m[:, np.newaxis] * basis[0]
-    steering_rad = _steering_within_right_angle_rad(
+    main_gear_xy = cockpit_xy - cmg_m[..., np.newaxis] * basis[0]
+    steering_rad = (_steering_within_right_angle_rad(
         _per_station([plan.aircraft.wheelbase_m / plan.aircraft.cmg_m for plan in plans], counts), alpha_rad)
+        if with_steering else np.empty(0))
+    if len(plans) == 1:  # the arrays are the plan's own already
+        plan = plans[0]
+        return [(GearTrack(plan.path, plan.aircraft, plan.station_m, cockpit_xy, body_heading_rad, alpha_rad,
+                           main_gear_xy), basis, steering_rad)]
     frames, start = [], 0
     for plan, count in zip(plans, counts, strict=True):
         rows = slice(start, start + count)
@@ -358,8 +365,9 @@ def _body_frames(plans: Sequence[SweepPlan]) -> list[tuple[GearTrack, FloatArray
 
 
 def _per_station(values: list[float], counts: list[int]) -> FloatArray:
-    """Each plan's value repeated at each of its stations: one array for the whole batch."""
-    return np.repeat(np.array(values), counts)
+    """Each plan's value repeated at each of its stations: one array for the whole batch (one plan:
+    its value, which broadcasts to the same products)."""
+    return np.array(values[0]) if len(values) == 1 else np.repeat(np.array(values), counts)
 
 
 # The tracks built from body points, in _body_points order; the cockpit (last body point) is not
