@@ -3,6 +3,11 @@ Space + drag), wheel zoom to the cursor, zoom to fit, and pointer events for the
 
 Mouse and key events leave here as :class:`app.model.tools.PointerEvent` records in plan metres
 through the ``pointer`` signal; the canvas itself never edits anything.
+
+Labels keep their size on the screen, so zoomed out they would run into each other: after every
+change of the labels or of the scale, one pass over the labels of all shown layers moves a label
+that would overlap one placed before it to another side of its point, or hides it
+(:mod:`app.ui.items.label_layout`).
 """
 
 from __future__ import annotations
@@ -14,6 +19,7 @@ from PySide6 import QtCore, QtGui, QtWidgets
 
 from app.model.scene import LAYER_ORDER, Scene
 from app.model.tools import PointerEvent
+from app.ui.items.label_layout import LABEL_ANCHORS, anchored_rect, place_labels
 from app.ui.items.layer_graphics import LayerGraphics
 from app.ui.items.overlay import Overlay
 from app.ui.items.vertex_handles import VertexHandles
@@ -27,6 +33,11 @@ KEY_NAMES = {QtCore.Qt.Key.Key_Return: "Enter", QtCore.Qt.Key.Key_Enter: "Enter"
              QtCore.Qt.Key.Key_Escape: "Escape", QtCore.Qt.Key.Key_Backspace: "Backspace"}
 BUTTON_NAMES = {QtCore.Qt.MouseButton.LeftButton: "left", QtCore.Qt.MouseButton.RightButton: "right",
                 QtCore.Qt.MouseButton.MiddleButton: "middle"}
+# Which labels win where they would overlap: runway designations, then taxiway names, then object
+# names (common practice, no source: the names a reader finds their way by come first).
+_FIRST_LABELS = ("runways", "centerlines", "objects")
+LABEL_PRIORITY = (*_FIRST_LABELS, *(name for name in LAYER_ORDER if name not in _FIRST_LABELS))
+LABEL_GAP_PX = 1.0  # labels closer than this count as overlapping (rounding of the text boxes)
 
 
 class PlanViewBox(pg.ViewBox):
@@ -128,6 +139,9 @@ class PlanCanvas(pg.PlotWidget):
         view_box.addItem(self.handles, ignoreBounds=True)
         self.overlay = Overlay(view_box, theme)
         self._shown: Scene | None = None
+        self._label_inputs: tuple[object, ...] | None = None  # of the last label pass
+        view_box.sigRangeChanged.connect(self._arrange_labels)
+        view_box.sigResized.connect(self._arrange_labels)
         self.scene().sigMouseMoved.connect(self._report_cursor)
         self.set_units("ft")
         self.set_theme(theme)
@@ -187,12 +201,39 @@ class PlanCanvas(pg.PlotWidget):
             centerlines = scene.layers["centerlines"]
             self.handles.set_points([p for p in centerlines.points if p.style in HANDLE_STYLES], self.theme)
         self._shown = scene
+        self._arrange_labels()
         return redrawn
 
     def set_layer_visible(self, name: str, visible: bool) -> None:
         self.layers[name].set_visible(visible)
         if name == "centerlines":
             self.handles.setVisible(visible)
+        self._arrange_labels()
+
+    def _arrange_labels(self, *_signal_args: object) -> None:
+        """The label pass over every shown layer; nothing when neither the labels nor the scale
+        changed since the last one (a pan, or a drag frame that moved no label)."""
+        (xmin, xmax), (ymin, ymax) = self.view_box.viewRange()
+        size = self.view_box.rect()
+        if not (size.width() > 0 and size.height() > 0 and xmax > xmin and ymax > ymin):
+            return
+        px_per_m = (size.width() / (xmax - xmin), size.height() / (ymax - ymin))
+        layers = [self.layers[name] for name in LABEL_PRIORITY]
+        # the scale to 9 digits: a pan changes the span by a rounding error, not the labels' places
+        scale_key = tuple(float(f"{scale:.9g}") for scale in px_per_m)
+        inputs = (scale_key, tuple(layer.label_revision for layer in layers))
+        if inputs == self._label_inputs:
+            return
+        self._label_inputs = inputs
+        boxes = [layer.label_boxes() for layer in layers]
+        # screen pixels up to a shift: y down, and a pan moves every label alike
+        candidates = [[anchored_rect(x_m * px_per_m[0], -y_m * px_per_m[1], width, height, anchor)
+                       .grown(LABEL_GAP_PX / 2.0) for anchor in LABEL_ANCHORS]
+                      for layer_boxes in boxes for x_m, y_m, width, height in layer_boxes]
+        placed = iter(place_labels(candidates))
+        for layer, layer_boxes in zip(layers, boxes, strict=True):
+            choices = [next(placed) for _ in layer_boxes]
+            layer.place_labels([None if choice is None else LABEL_ANCHORS[choice] for choice in choices])
 
     def set_theme(self, theme: Theme) -> None:
         self.theme = theme

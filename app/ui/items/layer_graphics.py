@@ -2,7 +2,9 @@
 :mod:`app.ui.items.shape_item`), one scatter per point style, a few text labels. Filled styles
 are filled without antialiasing (shared/ECOSYSTEM.md: about 7 times faster, and edges are drawn
 by a stroke style). A point set or label equal to the one shown is left alone: a drag changes
-one vertex and the junction markers near it, not the labels or the findings.
+one vertex and the junction markers near it, not the labels or the findings. Which labels show,
+and on which side of their point, the canvas decides over all layers (:meth:`place_labels`);
+``label_revision`` tells it when the labels of a layer changed.
 """
 
 from __future__ import annotations
@@ -15,8 +17,13 @@ from PySide6 import QtCore, QtWidgets
 
 from app.model.scene import LayerData, PointSet, Shape
 from app.ui import style
+from app.ui.items.label_layout import ABOVE_RIGHT, Anchor
 from app.ui.items.shape_item import ShapeItem
 from app.ui.style import Theme
+
+# Labels sit above every layer's lines and fills (a runway's name is not hidden under a taxiway's
+# pavement), in layer order among themselves, and below the editing overlay (overlay.OVERLAY_Z).
+LABEL_Z = 500.0
 
 
 class PassiveScatter(pg.ScatterPlotItem):
@@ -79,6 +86,8 @@ class LayerGraphics:
         self._labels: list[pg.TextItem] = []
         self._label_texts: list[tuple[str, float, float]] = []
         self._label_count = 0
+        self._label_anchors: list[Anchor | None] = []  # None: hidden, it would run into another label
+        self.label_revision = 0  # counts changes of the labels' texts, points, number or visibility
         self._visible = True
         self._draft = False  # a drag previews: see style.DRAFT_STYLES
         self._data: LayerData | None = None
@@ -91,6 +100,8 @@ class LayerGraphics:
         return [*self._curves.values(), *self._scatters.values(), *self._labels]
 
     def set_visible(self, visible: bool) -> None:
+        if visible != self._visible:
+            self.label_revision += 1
         self._visible = visible
         for item in self.graphics_items():
             item.setVisible(visible and self._has_content(item))
@@ -169,6 +180,8 @@ class LayerGraphics:
             _show(self._scatters[points.style], self._visible and len(points.xy) > 0)
         for extra in self._labels[label_index:]:
             _show(extra, False)
+        if label_index != self._label_count:
+            self.label_revision += 1
         self._label_count = label_index
 
     def _scatter(self, style_key: str) -> PassiveScatter:
@@ -188,10 +201,11 @@ class LayerGraphics:
             if index == len(self._labels):
                 label = pg.TextItem(anchor=(0.0, 1.0))
                 label.setCacheMode(_PIXMAP_CACHE)
-                label.setZValue(self._z + 3.0)
+                label.setZValue(LABEL_Z + self._z / 100.0)  # above every layer's lines and fills
                 self._view_box.addItem(label, ignoreBounds=True)
                 self._labels.append(label)
                 self._label_texts.append(("", math.nan, math.nan))
+                self._label_anchors.append(ABOVE_RIGHT)
             label = self._labels[index]
             shown = (text, float(xy[0]), float(xy[1]))
             before = self._label_texts[index]
@@ -199,13 +213,36 @@ class LayerGraphics:
                 label.setText(text, color=colour)  # lays the text out again: only when it changed
             if before[1:] != shown[1:]:
                 label.setPos(shown[1], shown[2])
+            if before != shown:
+                self.label_revision += 1
             self._label_texts[index] = shown
-            _show(label, self._visible)
+            _show(label, self._visible and self._label_anchors[index] is not None)
         return start + len(points.labels)
+
+    def label_boxes(self) -> list[tuple[float, float, float, float]]:
+        """(x_m, y_m, width_px, height_px) of each label this layer shows when nothing hides it: its
+        point in plan metres and the size of its text box on the screen; none while the layer is hidden."""
+        if not self._visible:
+            return []
+        boxes = []
+        for label, (_, x_m, y_m) in zip(self._labels[:self._label_count], self._label_texts, strict=False):
+            size = label.textItem.boundingRect()
+            boxes.append((x_m, y_m, float(size.width()), float(size.height())))
+        return boxes
+
+    def place_labels(self, anchors: list[Anchor | None]) -> None:
+        """Show the labels of :meth:`label_boxes` at these anchors (see label_layout), or hide those
+        given None."""
+        for index, (label, anchor) in enumerate(zip(self._labels, anchors, strict=False)):
+            if anchor is not None and anchor != self._label_anchors[index]:
+                label.setAnchor(anchor)
+            self._label_anchors[index] = anchor
+            _show(label, self._visible and anchor is not None)
 
     def _has_content(self, item: pg.GraphicsObject) -> bool:
         if isinstance(item, ShapeItem):
             return item.has_content()
         if isinstance(item, pg.ScatterPlotItem):
             return len(item.data) > 0
-        return item in self._labels[:self._label_count]
+        in_use = self._labels[:self._label_count]
+        return item in in_use and self._label_anchors[in_use.index(item)] is not None
