@@ -9,7 +9,6 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
-import numpy as np
 from PySide6 import QtCore, QtGui, QtWidgets
 
 from app.model.document import Document, LayoutChange
@@ -38,7 +37,7 @@ from app.ui.panels.layers_panel import LayersPanel
 from app.ui.panels.properties_panel import PropertiesPanel
 from app.ui.style import CAUTION, DARK, LIGHT
 from app.ui.tool_controller import ToolController
-from app.ui.underlay_controller import install_underlays
+from app.ui.underlay_controller import UnderlayController, install_underlays
 from geometry.findings import Finding
 from geometry.units import from_metres, to_metres
 
@@ -322,15 +321,20 @@ class MainWindow(QtWidgets.QMainWindow):
         self.canvas.zoom_to(*finding.location_m, FINDING_ZOOM_SPAN_M)
 
     def fit_bounds(self) -> tuple[float, float, float, float] | None:
-        bounds = layout_bounds(self.document.layout)
+        """What Zoom to fit shows: the layout, its pavement and the shown underlays."""
+        boxes = [layout_bounds(self.document.layout)]
         pavement = self.result.total_pavement if self.result is not None else None
-        if pavement is None or pavement.is_empty:
-            return bounds
-        extra = np.array(pavement.bounds)
-        if bounds is None:
-            return (float(extra[0]), float(extra[1]), float(extra[2]), float(extra[3]))
-        return (min(bounds[0], extra[0]), min(bounds[1], extra[1]),
-                max(bounds[2], extra[2]), max(bounds[3], extra[3]))
+        if pavement is not None and not pavement.is_empty:
+            xmin, ymin, xmax, ymax = pavement.bounds
+            boxes.append((float(xmin), float(ymin), float(xmax), float(ymax)))
+        underlays = self.findChild(UnderlayController)
+        if underlays is not None:
+            boxes.append(underlays.bounds_m())
+        found = [box for box in boxes if box is not None]
+        if not found:
+            return None
+        return (min(b[0] for b in found), min(b[1] for b in found), max(b[2] for b in found),
+                max(b[3] for b in found))
 
     def zoom_to_fit(self) -> None:
         self.canvas.zoom_to_fit(self.fit_bounds())

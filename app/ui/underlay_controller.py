@@ -40,7 +40,7 @@ from app.model.underlays import (
 )
 from app.ui.panels.underlay_panel import UnderlayPanel
 from app.ui.placement_dialog import TwoPointDialog
-from app.ui.underlay_items import ContentKey, UnderlayView, content_key
+from app.ui.underlay_items import ContentKey, ImagePixels, UnderlayView, content_key
 
 DRAWING_FILTER = "DXF drawings (*.dxf *.DXF);;All files (*)"
 IMAGE_FILTER = "Images (*.png *.jpg *.jpeg *.tif *.tiff *.PNG *.JPG *.JPEG *.TIF *.TIFF);;All files (*)"
@@ -214,6 +214,16 @@ class UnderlayController(QtCore.QObject):
             corners = np.array(placement.corners_xy(info.width_px, info.height_px))
             self._canvas.zoom_to_fit((*corners.min(axis=0).tolist(), *corners.max(axis=0).tolist()))
 
+    def bounds_m(self) -> tuple[float, float, float, float] | None:
+        """(xmin, ymin, xmax, ymax) on the plan of what the shown underlays draw (a drawing's shown
+        layers, an image's placed corners), or None when nothing is shown or loaded yet."""
+        boxes = [box for underlay in self._document.layout.underlays if underlay.visible
+                 for box in (_shown_extent(underlay, self.view.status(underlay)),) if box is not None]
+        if not boxes:
+            return None
+        low, high = np.min(np.array(boxes)[:, :2], axis=0), np.max(np.array(boxes)[:, 2:], axis=0)
+        return (float(low[0]), float(low[1]), float(high[0]), float(high[1]))
+
     # --- keeping in step -----------------------------------------------------------------------------
 
     def _on_change(self, change: LayoutChange) -> None:
@@ -333,6 +343,24 @@ def _menu(window: QtWidgets.QMainWindow, title: str) -> QtWidgets.QMenu | None:
             menu = action.menu()
             return menu if isinstance(menu, QtWidgets.QMenu) else None
     return None
+
+
+def _shown_extent(underlay: Underlay, content: object) -> tuple[float, float, float, float] | None:
+    """The plan extent of one underlay's loaded content, or None."""
+    if isinstance(content, ImagePixels) and underlay.placement is not None:
+        corners = np.array(underlay.placement.corners_xy(content.width_px, content.height_px))
+        xy = corners
+    elif isinstance(content, BaseDrawing):
+        arrays = [layer.polylines for name, layer in content.layers.items()
+                  if name not in underlay.hidden_layers and len(layer.polylines)]
+        xy = np.vstack(arrays) if arrays else np.empty((0, 2))
+        xy = xy[np.isfinite(xy).all(axis=1)]
+    else:
+        return None
+    if not len(xy):
+        return None
+    low, high = xy.min(axis=0), xy.max(axis=0)
+    return (float(low[0]), float(low[1]), float(high[0]), float(high[1]))
 
 
 def install_underlays(main_window: Any) -> None:

@@ -264,3 +264,19 @@ def test_image_pixels_keep_their_rows(qtbot, tmp_path: Path) -> None:
     pixels = load_image_pixels(str(tmp_path / "tiny.png"))
     assert isinstance(pixels, ImagePixels) and pixels.rgba.shape == (2, 3, 4)
     assert pixels.rgba[0, 2].tolist() == [255, 0, 0, 255] and not np.any(pixels.rgba[1, :, 0])
+
+
+def test_zoom_to_fit_takes_in_the_shown_underlays(window: MainWindow, tmp_path: Path) -> None:
+    controller = imported(window, make_drawing(tmp_path / "base.dxf"))
+    bounds = window.fit_bounds()  # the layout is empty: the drawing alone sets the extent
+    assert bounds is not None
+    xmin, ymin, xmax, ymax = bounds
+    # invariant: the drawing's edge line (0 to 100 ft along y = 0) lies within what Zoom to fit shows
+    assert xmin <= 0.0 and xmax >= 100 * FT and ymin <= 0.0 <= ymax
+    window.canvas.zoom_to(5000.0, 5000.0, 10.0)  # far away from the drawing
+    window.zoom_to_fit()
+    view = window.canvas.visible_rect_m()
+    # invariant: after Zoom to fit the view holds the drawing's edge line
+    assert view.contains(QtCore.QPointF(0.0, 0.0)) and view.contains(QtCore.QPointF(100 * FT, 0.0))
+    controller.panel.list.item(0).setCheckState(QtCore.Qt.CheckState.Unchecked)
+    assert window.fit_bounds() is None  # invariant: a hidden underlay of an empty layout adds nothing
